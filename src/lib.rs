@@ -1,0 +1,16 @@
+//! stoik: a linter and language server for reaction libraries.
+//!
+//! Data flows one way: text is lexed and parsed into a syntax tree
+//! ([`syntax`]), lowered into a library model of species, reactions and
+//! mixtures with all quantities in SI ([`model`]), checked ([`checks`]) and
+//! computed on ([`thermo`], [`equilibrium`]). The results are plain values
+//! ([`diagnostic::Diagnostic`] and friends) that the thin [`cli`] and [`lsp`]
+//! adapters render. Nothing below `cli` and `lsp` knows about terminals or the
+//! protocol.
+
+pub mod chem;
+pub mod diagnostic;
+pub mod equilibrium;
+pub mod rules;
+pub mod span;
+pub mod units;
