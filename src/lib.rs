@@ -9,8 +9,10 @@
 //! protocol.
 
 pub mod chem;
+pub mod cli;
 pub mod diagnostic;
 pub mod equilibrium;
 pub mod rules;
 pub mod span;
 pub mod units;
+pub mod syntax;

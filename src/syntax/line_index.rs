@@ -1,0 +1,185 @@
+//! Byte offsets to editor positions and back.
+//!
+//! Inside stoik every location is a byte offset. Editors and reports want a
+//! line and a column, counted in UTF-8 bytes, UTF-16 code units or Unicode
+//! scalar values depending on who asks. This index keeps the start of every
+//! line (`\n`, `\r\n` and a lone `\r` all end a line) and converts at the
+//! boundary only. ASCII lines take a fast path.
+
+/// How columns are counted.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub enum Encoding {
+    Utf8,
+    Utf16,
+    /// Unicode scalar values (what the CLI and JSON output report).
+    Utf32,
+}
+
+/// A 0-based line and a 0-based column in some [`Encoding`].
+#[derive(Clone, Copy, Debug, PartialEq, Eq, PartialOrd, Ord)]
+pub struct Position {
+    pub line: u32,
+    pub column: u32,
+}
+
+/// Line starts of one text.
+#[derive(Clone, Debug)]
+pub struct LineIndex {
+    starts: Vec<usize>,
+    /// For each line, whether it is pure ASCII.
+    ascii: Vec<bool>,
+    len: usize,
+}
+
+impl LineIndex {
+    pub fn new(text: &str) -> Self {
+        let bytes = text.as_bytes();
+        let mut starts = vec![0];
+        let mut ascii = Vec::new();
+        let mut line_ascii = true;
+        let mut i = 0;
+        while i < bytes.len() {
+            let b = bytes[i];
+            if b == b'\n' || b == b'\r' {
+                if b == b'\r' && bytes.get(i + 1) == Some(&b'\n') {
+                    i += 1;
+                }
+                ascii.push(line_ascii);
+                line_ascii = true;
+                starts.push(i + 1);
+            } else if b >= 0x80 {
+                line_ascii = false;
+            }
+            i += 1;
+        }
+        ascii.push(line_ascii);
+        LineIndex {
+            starts,
+            ascii,
+            len: text.len(),
+        }
+    }
+
+    pub fn line_count(&self) -> usize {
+        self.starts.len()
+    }
+
+    /// The byte offset where 0-based `line` starts.
+    pub fn line_start(&self, line: usize) -> usize {
+        self.starts.get(line).copied().unwrap_or(self.len)
+    }
+
+    /// The 0-based line containing byte `offset`.
+    pub fn line_of(&self, offset: usize) -> usize {
+        let offset = offset.min(self.len);
+        match self.starts.binary_search(&offset) {
+            Ok(line) => line,
+            Err(next) => next - 1,
+        }
+    }
+
+    /// The byte range of a line without its line end.
+    pub fn line_range(&self, text: &str, line: usize) -> std::ops::Range<usize> {
+        let start = self.line_start(line);
+        let mut end = self.starts.get(line + 1).copied().unwrap_or(self.len);
+        let bytes = text.as_bytes();
+        while end > start && matches!(bytes.get(end - 1), Some(b'\n' | b'\r')) {
+            end -= 1;
+        }
+        start..end
+    }
+
+    /// The position of byte `offset`. An offset inside a multi-byte
+    /// character is moved back to that character's start.
+    pub fn position(&self, text: &str, offset: usize, encoding: Encoding) -> Position {
+        let mut offset = offset.min(text.len());
+        while !text.is_char_boundary(offset) {
+            offset -= 1;
+        }
+        let line = self.line_of(offset);
+        let start = self.starts[line];
+        let column = if self.ascii[line] || encoding == Encoding::Utf8 {
+            offset - start
+        } else {
+            let piece = &text[start..offset];
+            match encoding {
+                Encoding::Utf16 => piece.encode_utf16().count(),
+                _ => piece.chars().count(),
+            }
+        };
+        Position {
+            line: line as u32,
+            column: column as u32,
+        }
+    }
+
+    /// The byte offset of a position; columns past the end of the line clamp
+    /// to its end, and a column inside a character moves to its start.
+    pub fn offset(&self, text: &str, position: Position, encoding: Encoding) -> usize {
+        let line = position.line as usize;
+        if line >= self.starts.len() {
+            return text.len();
+        }
+        let range = self.line_range(text, line);
+        let want = position.column as usize;
+        if self.ascii[line] || encoding == Encoding::Utf8 {
+            let mut at = (range.start + want).min(range.end);
+            while !text.is_char_boundary(at) {
+                at -= 1;
+            }
+            return at;
+        }
+        let mut units = 0usize;
+        for (i, c) in text[range.clone()].char_indices() {
+            let width = match encoding {
+                Encoding::Utf16 => c.len_utf16(),
+                _ => 1,
+            };
+            if units + width > want {
+                return range.start + i;
+            }
+            units += width;
+        }
+        range.end
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn all_three_line_ends_count() {
+        let text = "a\nb\r\nc\rd";
+        let index = LineIndex::new(text);
+        assert_eq!(index.line_count(), 4);
+        assert_eq!(index.position(text, 7, Encoding::Utf16), Position { line: 3, column: 0 });
+        assert_eq!(index.line_range(text, 1), 2..3);
+    }
+
+    #[test]
+    fn columns_in_each_encoding() {
+        // `⇌` is 3 bytes and 1 UTF-16 unit; `𝛥` (U+1D6E5) is 4 bytes and 2 units.
+        let text = "A ⇌ 𝛥B";
+        let index = LineIndex::new(text);
+        let b = text.find('B').expect("B");
+        assert_eq!(index.position(text, b, Encoding::Utf8).column, 10);
+        assert_eq!(index.position(text, b, Encoding::Utf16).column, 6);
+        assert_eq!(index.position(text, b, Encoding::Utf32).column, 5);
+        for enc in [Encoding::Utf8, Encoding::Utf16, Encoding::Utf32] {
+            let p = index.position(text, b, enc);
+            assert_eq!(index.offset(text, p, enc), b);
+        }
+    }
+
+    #[test]
+    fn offsets_inside_a_character_move_to_its_start() {
+        let text = "°C";
+        let index = LineIndex::new(text);
+        assert_eq!(index.position(text, 1, Encoding::Utf8).column, 0);
+        // Column 1 in UTF-16 inside a surrogate pair falls back to the start.
+        let text = "𝛥";
+        let index = LineIndex::new(text);
+        assert_eq!(index.offset(text, Position { line: 0, column: 1 }, Encoding::Utf16), 0);
+    }
+}
