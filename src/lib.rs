@@ -8,11 +8,17 @@
 //! adapters render. Nothing below `cli` and `lsp` knows about terminals or the
 //! protocol.
 
+pub mod analysis;
+pub mod checks;
 pub mod chem;
 pub mod cli;
+pub mod config;
 pub mod diagnostic;
 pub mod equilibrium;
+pub mod model;
 pub mod rules;
 pub mod span;
-pub mod units;
+pub mod suppression;
 pub mod syntax;
+pub mod units;
+pub mod workspace;

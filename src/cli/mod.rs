@@ -1,6 +1,104 @@
-//! Command-line adapter (filled in below).
+//! The command-line adapter: argument parsing and one file per command.
+//!
+//! Commands call the analysis core and render its values; none of them
+//! computes chemistry of its own.
+
+mod balance;
+mod check;
+mod explain;
+pub mod render_human;
+pub mod render_json;
+pub mod render_sarif;
+
+use clap::{Parser, Subcommand, ValueEnum};
+use std::io::IsTerminal;
+use std::path::PathBuf;
+
+/// Exit code: success, no finding at error level.
+pub const EXIT_OK: i32 = 0;
+/// Exit code: findings at error level (or warnings under `--deny warnings`).
+pub const EXIT_FINDINGS: i32 = 1;
+/// Exit code: usage or I/O error.
+pub const EXIT_USAGE: i32 = 2;
+
+#[derive(Parser)]
+#[command(
+    name = "stoik",
+    version,
+    about = "Lint reaction libraries: balance, units and the thermodynamic consistency of K",
+    long_about = None
+)]
+struct Cli {
+    #[command(subcommand)]
+    command: Command,
+}
+
+#[derive(Clone, Copy, PartialEq, Eq, ValueEnum)]
+pub enum Format {
+    Human,
+    Json,
+    Sarif,
+}
+
+#[derive(Clone, Copy, PartialEq, Eq, ValueEnum)]
+pub enum DataFormat {
+    Human,
+    Json,
+}
+
+#[derive(Clone, Copy, PartialEq, Eq, ValueEnum)]
+pub enum Deny {
+    Warnings,
+}
+
+#[derive(Subcommand)]
+enum Command {
+    /// Lint files or folders (recursively *.stoik; `-` reads standard input)
+    Check {
+        /// Files or folders; default the current folder
+        paths: Vec<PathBuf>,
+        #[arg(long, value_enum, default_value = "human")]
+        format: Format,
+        /// Treat warnings as errors for the exit code
+        #[arg(long, value_enum)]
+        deny: Option<Deny>,
+        /// The name to report for standard input (and to resolve its `use` paths)
+        #[arg(long)]
+        stdin_filename: Option<PathBuf>,
+    },
+    /// Smallest integer coefficients of an equation, or why there is no unique balance
+    Balance {
+        equation: String,
+        #[arg(long, value_enum, default_value = "human")]
+        format: DataFormat,
+    },
+    /// What a rule checks, why it matters, how to fix it (no rule: list them all)
+    Explain { rule: Option<String> },
+}
+
+/// Whether to colour output written to stdout.
+pub fn use_color() -> bool {
+    std::env::var_os("NO_COLOR").is_none_or(|v| v.is_empty()) && std::io::stdout().is_terminal()
+}
 
 /// Entry point of the binary; returns the process exit code.
 pub fn main() -> i32 {
-    0
+    let cli = match Cli::try_parse() {
+        Ok(cli) => cli,
+        Err(e) => {
+            let code = if e.use_stderr() { EXIT_USAGE } else { EXIT_OK };
+            let _ = e.print();
+            return code;
+        }
+    };
+    match cli.command {
+        Command::Check {
+            paths,
+            format,
+            deny,
+            stdin_filename,
+        } => check::run(&paths, format, deny.is_some(), stdin_filename.as_deref()),
+        Command::Balance { equation, format } => balance::run(&equation, format),
+        Command::Explain { rule } => explain::run(rule.as_deref()),
+    }
 }

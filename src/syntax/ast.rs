@@ -62,9 +62,15 @@ pub enum StatementKind {
     /// `use "path"`.
     Use { path: Option<StringLit> },
     /// `species [ALIAS =] FORMULA`.
-    Species { alias: Option<Name>, formula: Option<Name> },
+    Species {
+        alias: Option<Name>,
+        formula: Option<Name>,
+    },
     /// `reaction [LABEL]: EQUATION`.
-    Reaction { label: Option<Name>, equation: Option<Equation> },
+    Reaction {
+        label: Option<Name>,
+        equation: Option<Equation>,
+    },
     /// `mixture NAME`.
     Mixture { name: Option<Name> },
 }

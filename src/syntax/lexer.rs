@@ -98,7 +98,10 @@ mod tests {
     #[test]
     fn unicode_arrows_and_charges_are_tokens() {
         use Token::*;
-        assert_eq!(kinds("Cu²⁺ ⇌ Fe^3+ → ↔"), vec![Word, Reversible, Word, Forward, Resonance]);
+        assert_eq!(
+            kinds("Cu²⁺ ⇌ Fe^3+ → ↔"),
+            vec![Word, Reversible, Word, Forward, Resonance]
+        );
     }
 
     #[test]

@@ -153,7 +153,10 @@ mod tests {
         let text = "a\nb\r\nc\rd";
         let index = LineIndex::new(text);
         assert_eq!(index.line_count(), 4);
-        assert_eq!(index.position(text, 7, Encoding::Utf16), Position { line: 3, column: 0 });
+        assert_eq!(
+            index.position(text, 7, Encoding::Utf16),
+            Position { line: 3, column: 0 }
+        );
         assert_eq!(index.line_range(text, 1), 2..3);
     }
 
@@ -180,6 +183,9 @@ mod tests {
         // Column 1 in UTF-16 inside a surrogate pair falls back to the start.
         let text = "𝛥";
         let index = LineIndex::new(text);
-        assert_eq!(index.offset(text, Position { line: 0, column: 1 }, Encoding::Utf16), 0);
+        assert_eq!(
+            index.offset(text, Position { line: 0, column: 1 }, Encoding::Utf16),
+            0
+        );
     }
 }

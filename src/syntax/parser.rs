@@ -128,7 +128,9 @@ impl<'t> Parser<'t> {
                 self.error(
                     span,
                     "an indented line continues a statement, but no statement comes before it",
-                    Some("start the statement at column 0 with a keyword such as `reaction`".into()),
+                    Some(
+                        "start the statement at column 0 with a keyword such as `reaction`".into(),
+                    ),
                 );
             }
         }
@@ -172,7 +174,10 @@ impl<'t> Parser<'t> {
         let help = match nearest {
             Some(k) => Some(format!("did you mean `{k}`?")),
             None if tokens.iter().any(|t| {
-                matches!(t.token, Token::Reversible | Token::Forward | Token::Resonance)
+                matches!(
+                    t.token,
+                    Token::Reversible | Token::Forward | Token::Resonance
+                )
             }) =>
             {
                 Some("write a reaction as `reaction: A + B <=> C`".to_string())
@@ -180,7 +185,9 @@ impl<'t> Parser<'t> {
             None if tokens.iter().any(|t| t.token == Token::Eq) => Some(
                 "indent an attribute line so that it continues the statement above".to_string(),
             ),
-            None => Some("statements start with `units`, `use`, `species`, `reaction` or `mixture`".into()),
+            None => Some(
+                "statements start with `units`, `use`, `species`, `reaction` or `mixture`".into(),
+            ),
         };
         self.error(
             span,
@@ -203,7 +210,11 @@ impl<'t> Parser<'t> {
                 }
             }
             Some(l) if l.token == Token::UnterminatedStr => {
-                self.error(l.span, "this string is not closed", Some("add the closing `\"`".into()));
+                self.error(
+                    l.span,
+                    "this string is not closed",
+                    Some("add the closing `\"`".into()),
+                );
             }
             Some(l) => {
                 let span = l.span.cover(rest[rest.len() - 1].span);
@@ -213,7 +224,11 @@ impl<'t> Parser<'t> {
                     Some(format!("write `use \"{}\"`", self.slice(span))),
                 );
             }
-            None => self.error(keyword, "`use` needs a path", Some("write `use \"other.stoik\"`".into())),
+            None => self.error(
+                keyword,
+                "`use` needs a path",
+                Some("write `use \"other.stoik\"`".into()),
+            ),
         }
         (StatementKind::Use { path }, Vec::new())
     }
@@ -232,11 +247,19 @@ impl<'t> Parser<'t> {
                 (Some(self.name(a.span)), Some(self.name(f.span)))
             }
             [] => {
-                self.error(keyword, "`species` needs a formula", Some("write `species NH3(g)` or `species ethanol = C2H5OH(l)`".into()));
+                self.error(
+                    keyword,
+                    "`species` needs a formula",
+                    Some("write `species NH3(g)` or `species ethanol = C2H5OH(l)`".into()),
+                );
                 (None, None)
             }
             [a, e] if word(a) && e.token == Token::Eq => {
-                self.error(e.span, "a formula must follow `=`", Some(format!("write `species {} = FORMULA`", self.slice(a.span))));
+                self.error(
+                    e.span,
+                    "a formula must follow `=`",
+                    Some(format!("write `species {} = FORMULA`", self.slice(a.span))),
+                );
                 (Some(self.name(a.span)), None)
             }
             _ => {
@@ -326,12 +349,20 @@ impl<'t> Parser<'t> {
         let name = match head {
             [n] if n.token == Token::Word => Some(self.name(n.span)),
             [] => {
-                self.error(keyword, "a mixture needs a name", Some("write `mixture feed`".into()));
+                self.error(
+                    keyword,
+                    "a mixture needs a name",
+                    Some("write `mixture feed`".into()),
+                );
                 None
             }
             _ => {
                 let span = head[0].span.cover(head[head.len() - 1].span);
-                self.error(span, "a mixture name is one word", Some("put its contents on indented lines below".into()));
+                self.error(
+                    span,
+                    "a mixture name is one word",
+                    Some("put its contents on indented lines below".into()),
+                );
                 None
             }
         };
@@ -366,7 +397,10 @@ impl<'t> Parser<'t> {
         if name_tok.token != Token::Word {
             self.error(
                 name_tok.span,
-                format!("expected an attribute name, found `{}`", truncate(self.slice(name_tok.span), 20)),
+                format!(
+                    "expected an attribute name, found `{}`",
+                    truncate(self.slice(name_tok.span), 20)
+                ),
                 Some("write `name = value`".into()),
             );
             return None;
@@ -403,15 +437,16 @@ impl<'t> Parser<'t> {
                 span: Span::empty(item[1].span.end),
             }
         } else {
-            if let Some(bad) = value_tokens.iter().find(|l| {
-                !matches!(
-                    l.token,
-                    Token::Word | Token::Str | Token::Comma | Token::Eq
-                )
-            }) {
+            if let Some(bad) = value_tokens
+                .iter()
+                .find(|l| !matches!(l.token, Token::Word | Token::Str | Token::Comma | Token::Eq))
+            {
                 let message = match bad.token {
                     Token::UnterminatedStr => "this string is not closed".to_string(),
-                    _ => format!("unexpected `{}` in a value", truncate(self.slice(bad.span), 20)),
+                    _ => format!(
+                        "unexpected `{}` in a value",
+                        truncate(self.slice(bad.span), 20)
+                    ),
                 };
                 self.error(bad.span, message, None);
                 return None;
@@ -515,7 +550,11 @@ impl<'t> Parser<'t> {
 
     fn side(&mut self, items: &[Lexeme], arrow: Span, which: &str) -> Option<Vec<Term>> {
         if items.is_empty() {
-            let at = if which == "left" { arrow.start } else { arrow.end };
+            let at = if which == "left" {
+                arrow.start
+            } else {
+                arrow.end
+            };
             self.error(
                 Span::empty(at),
                 format!("the {which} side of the equation is empty"),
@@ -531,7 +570,11 @@ impl<'t> Parser<'t> {
             let l = items[i];
             let text = self.slice(l.span);
             if l.token != Token::Word {
-                self.error(l.span, format!("unexpected `{}` in an equation", truncate(text, 20)), None);
+                self.error(
+                    l.span,
+                    format!("unexpected `{}` in an equation", truncate(text, 20)),
+                    None,
+                );
                 return None;
             }
             if expect_term {
@@ -564,6 +607,16 @@ impl<'t> Parser<'t> {
                         self.error(l.span, "a `+` with no term after it", None);
                         ok = false;
                     }
+                    continue;
+                }
+                if text.starts_with('+') && text.len() > 1 {
+                    self.error(
+                        Span::new(l.span.start, l.span.start + 1),
+                        "the `+` that joins two terms needs whitespace on both sides",
+                        Some("write `A + B`; a `+` touching a formula is read as a charge".into()),
+                    );
+                    ok = false;
+                    i += 1;
                     continue;
                 }
                 let prev = items[i - 1].span;
@@ -604,7 +657,10 @@ impl<'t> Parser<'t> {
                 _ => {
                     self.error(
                         Span::empty(l.span.end),
-                        format!("the coefficient `{}` has no species after it", truncate(text, 20)),
+                        format!(
+                            "the coefficient `{}` has no species after it",
+                            truncate(text, 20)
+                        ),
                         None,
                     );
                     None
@@ -633,7 +689,11 @@ impl<'t> Parser<'t> {
     fn coefficient(&mut self, text: &str, span: Span) -> Option<Coefficient> {
         match parse_coefficient(text) {
             Ok(value) if *value.numer() == 0 => {
-                self.error(span, "a coefficient of zero", Some("leave the species out instead".into()));
+                self.error(
+                    span,
+                    "a coefficient of zero",
+                    Some("leave the species out instead".into()),
+                );
                 None
             }
             Ok(value) => Some(Coefficient { value, span }),

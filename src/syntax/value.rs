@@ -58,7 +58,10 @@ fn arrhenius(text: &str, base: usize, whole: Span) -> Result<Value, SyntaxError>
         let Some((name, value)) = item.split_once('=') else {
             return Err(SyntaxError {
                 span: Span::new(start, start + item.len()),
-                message: format!("expected `name = value` in `arrhenius`, found `{}`", truncate(item, 30)),
+                message: format!(
+                    "expected `name = value` in `arrhenius`, found `{}`",
+                    truncate(item, 30)
+                ),
                 help: Some("the arguments are `A`, `n` and `Ea`".into()),
             });
         };
@@ -229,7 +232,10 @@ mod tests {
         assert_eq!(v.unit.as_ref().map(|u| u.text.as_str()), Some("kJ/mol"));
         let at = v.at.expect("at");
         assert_eq!(at.number, 25.0);
-        assert_eq!(at.unit.map(|u| (u.text, u.span)), Some(("degC".into(), Span::new(19, 23))));
+        assert_eq!(
+            at.unit.map(|u| (u.text, u.span)),
+            Some(("degC".into(), Span::new(19, 23)))
+        );
     }
 
     #[test]
@@ -250,6 +256,9 @@ mod tests {
             panic!("not arrhenius");
         };
         assert_eq!(args.len(), 3);
-        assert_eq!(&text[args[2].name.span.start - 10..args[2].name.span.end - 10], "Ea");
+        assert_eq!(
+            &text[args[2].name.span.start - 10..args[2].name.span.end - 10],
+            "Ea"
+        );
     }
 }

@@ -1,0 +1,105 @@
+//! The one analysis entry point the CLI and the language server share.
+//!
+//! Given a loaded [`Workspace`] and a [`Config`], it lowers every library
+//! (a top file and what it uses), runs the checks, applies suppression
+//! comments and configured severities, and returns the diagnostics together
+//! with the models the computations need.
+
+use crate::config::{Config, Level};
+use crate::diagnostic::{Diagnostic, Severity};
+use crate::model::Library;
+use crate::span::{FileId, Span};
+use crate::workspace::Workspace;
+use std::collections::HashSet;
+
+/// A library and the file at its top.
+pub struct LibraryResult {
+    pub top: FileId,
+    pub library: Library,
+}
+
+/// Everything one analysis produced.
+pub struct Analysis {
+    pub workspace: Workspace,
+    pub libraries: Vec<LibraryResult>,
+    /// Final diagnostics: deduplicated, suppressed, at configured severity,
+    /// sorted by file and position.
+    pub diagnostics: Vec<Diagnostic>,
+}
+
+impl Analysis {
+    /// The library whose closure holds `file`, preferring one topped by it.
+    pub fn library_of(&self, file: FileId) -> Option<&LibraryResult> {
+        self.libraries.iter().find(|l| l.top == file).or_else(|| {
+            self.libraries
+                .iter()
+                .find(|l| l.library.files.contains(&file))
+        })
+    }
+}
+
+/// Analyse every library of a loaded workspace.
+pub fn analyze(workspace: Workspace, config: &Config) -> Analysis {
+    let mut raw: Vec<Diagnostic> = workspace.diagnostics.clone();
+    for f in &workspace.files {
+        for e in &f.syntax.errors {
+            let mut d = Diagnostic::new("syntax", f.id, e.span, e.message.clone());
+            if let Some(h) = &e.help {
+                d = d.with_help(h.clone());
+            }
+            raw.push(d);
+        }
+    }
+    let mut libraries = Vec::new();
+    for top in workspace.tops() {
+        let files = workspace.closure(top);
+        let (library, diags) = crate::model::lower::lower(&workspace, &files, config);
+        raw.extend(diags);
+        raw.extend(crate::checks::run(&workspace, &library, config));
+        libraries.push(LibraryResult { top, library });
+    }
+    let diagnostics = finish(&workspace, raw, config);
+    Analysis {
+        workspace,
+        libraries,
+        diagnostics,
+    }
+}
+
+/// Deduplicate, apply suppressions and severities, sort.
+fn finish(ws: &Workspace, raw: Vec<Diagnostic>, config: &Config) -> Vec<Diagnostic> {
+    let mut seen = HashSet::new();
+    let mut list: Vec<Diagnostic> = raw
+        .into_iter()
+        .filter(|d| seen.insert((d.file, d.span, d.rule, d.message.clone())))
+        .collect();
+    let mut out = Vec::with_capacity(list.len());
+    let mut suppressions = crate::suppression::collect(ws);
+    list.retain(|d| {
+        let line = ws.file(d.file).index.line_of(d.span.start);
+        !suppressions.silences(d, line)
+    });
+    list.extend(suppressions.unused(ws));
+    for mut d in list {
+        match config.level(d.rule) {
+            Level::Off => continue,
+            Level::On(sev) => {
+                // A hint the checks chose stays a hint unless configured.
+                if !(d.severity == Severity::Hint && !config.rules.contains_key(d.rule)) {
+                    d.severity = sev;
+                }
+            }
+        }
+        out.push(d);
+    }
+    out.sort_by(|a, b| {
+        (a.file, a.span.start, a.span.end, a.rule).cmp(&(b.file, b.span.start, b.span.end, b.rule))
+    });
+    out
+}
+
+/// The span of a whole line, for diagnostics about a line.
+pub fn line_span(ws: &Workspace, file: FileId, line: usize) -> Span {
+    let f = ws.file(file);
+    Span::from(f.index.line_range(&f.text, line))
+}

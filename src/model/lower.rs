@@ -1,0 +1,1048 @@
+//! Lowering: syntax trees of a library's files into the [`Library`] model.
+//!
+//! This is where names are resolved (aliases, formulas), attributes are
+//! matched against what each statement takes, quantities are converted to SI,
+//! and the per-statement checks that need nothing but the statement itself
+//! run: formulas, arrows, the third body and element and charge balance.
+
+use super::quantity::{Kind, UnitReader};
+use super::*;
+use crate::chem::balance::{BalanceOutcome, balance, residuals};
+use crate::chem::formula::{FormulaErrorKind, SpeciesKind, looks_like_formula, parse_formula};
+use crate::config::Config;
+use crate::diagnostic::{Applicability, Diagnostic, Fix, TextEdit};
+use crate::syntax::ast::{self, ArrowKind, Statement, StatementKind, ValueKind};
+use crate::syntax::parser::truncate;
+use crate::workspace::Workspace;
+use std::collections::HashMap;
+
+/// The attributes a species takes.
+pub const SPECIES_ATTRIBUTES: &[&str] = &["dHf", "dGf", "S", "Cp", "source"];
+/// The attributes a reaction takes.
+pub const REACTION_ATTRIBUTES: &[&str] = &[
+    "K", "Kc", "Kp", "logK", "pK", "dG", "dH", "dS", "kf", "kr", "k", "source",
+];
+/// The attributes a mixture takes besides its species lines.
+pub const MIXTURE_ATTRIBUTES: &[&str] = &["temperature", "pressure", "volume", "activity"];
+/// The arguments of `arrhenius(...)`.
+pub const ARRHENIUS_ARGUMENTS: &[&str] = &["A", "n", "Ea"];
+
+/// Build the library of `files` (the used files before their users).
+pub fn lower(ws: &Workspace, files: &[FileId], config: &Config) -> (Library, Vec<Diagnostic>) {
+    let mut l = Lowering {
+        ws,
+        config,
+        lib: Library {
+            files: files.to_vec(),
+            ..Library::default()
+        },
+        diags: Vec::new(),
+        aliases: HashMap::new(),
+        by_key: HashMap::new(),
+        by_text: HashMap::new(),
+        labels: HashMap::new(),
+    };
+    for &file in files {
+        let reader = l.reader(file);
+        for s in &ws.file(file).syntax.statements {
+            if let StatementKind::Species { alias, formula } = &s.kind {
+                l.species_statement(file, &reader, s, alias.as_ref(), formula.as_ref());
+            }
+        }
+    }
+    for &file in files {
+        let reader = l.reader(file);
+        for s in &ws.file(file).syntax.statements {
+            match &s.kind {
+                StatementKind::Reaction { label, equation } => {
+                    l.reaction_statement(file, &reader, s, label.as_ref(), equation.as_ref())
+                }
+                StatementKind::Mixture { name } => {
+                    l.mixture_statement(file, &reader, s, name.as_ref())
+                }
+                StatementKind::Units => {}
+                _ => {}
+            }
+        }
+    }
+    (l.lib, l.diags)
+}
+
+struct Lowering<'w> {
+    ws: &'w Workspace,
+    config: &'w Config,
+    lib: Library,
+    diags: Vec<Diagnostic>,
+    aliases: HashMap<String, SpeciesId>,
+    /// Species by the canonical key of their formula (non-alias species).
+    by_key: HashMap<String, SpeciesId>,
+    /// Resolution of each species text met so far (`None` when it failed).
+    by_text: HashMap<String, Option<SpeciesId>>,
+    labels: HashMap<String, Loc>,
+}
+
+/// A key under which two spellings of one formula in one phase meet.
+fn formula_key(f: &crate::chem::formula::Formula) -> String {
+    format!(
+        "{:?}|{}|{:?}|{:?}",
+        f.composition, f.charge, f.phase, f.kind
+    )
+}
+
+impl<'w> Lowering<'w> {
+    fn reader(&mut self, file: FileId) -> UnitReader {
+        let (reader, diags) = UnitReader::for_file(self.ws, file, self.config);
+        self.diags.extend(diags);
+        reader
+    }
+
+    fn push(&mut self, d: Diagnostic) {
+        self.diags.push(d);
+    }
+
+    /// Report a formula that does not parse; `span` is the token's span.
+    fn formula_error(&mut self, file: FileId, span: crate::span::Span, text: &str) -> bool {
+        match parse_formula(text) {
+            Ok(_) => false,
+            Err(e) => {
+                let at = crate::span::Span::new(span.start + e.span.start, span.start + e.span.end);
+                let rule = match e.kind {
+                    FormulaErrorKind::UnknownElement => "unknown-element",
+                    _ => "syntax",
+                };
+                let mut d = Diagnostic::new(rule, file, at, e.message.clone());
+                if let Some(first) = e.suggestions.first() {
+                    d = d.with_help(format!("did you mean `{first}`?"));
+                    for s in e.suggestions.iter().take(3) {
+                        d = d.with_fix(Fix {
+                            title: format!("write `{s}`"),
+                            applicability: Applicability::Unsafe,
+                            edits: vec![TextEdit {
+                                file,
+                                span,
+                                new_text: s.clone(),
+                            }],
+                        });
+                    }
+                }
+                self.push(d);
+                true
+            }
+        }
+    }
+
+    fn species_statement(
+        &mut self,
+        file: FileId,
+        reader: &UnitReader,
+        s: &Statement,
+        alias: Option<&ast::Name>,
+        formula: Option<&ast::Name>,
+    ) {
+        let Some(formula_name) = formula else { return };
+        let parsed = match parse_formula(&formula_name.text) {
+            Ok(f) => f,
+            Err(_) => {
+                self.formula_error(file, formula_name.span, &formula_name.text);
+                return;
+            }
+        };
+        self.reading_note(file, formula_name, &parsed);
+        let loc = Loc::new(file, s.span);
+        let id = if let Some(alias) = alias {
+            if looks_like_formula(&alias.text) {
+                self.push(
+                    Diagnostic::new(
+                        "syntax",
+                        file,
+                        alias.span,
+                        format!(
+                            "`{}` reads as a formula, so it cannot be an alias",
+                            truncate(&alias.text, 30)
+                        ),
+                    )
+                    .with_help(
+                        "an alias starts with a lowercase letter, such as `ethanol` or `isoA`",
+                    ),
+                );
+                return;
+            }
+            if let Some(prev) = self.aliases.get(&alias.text).copied() {
+                let prev_loc = self.lib.species(prev).declared.unwrap_or(loc);
+                self.push(
+                    Diagnostic::new(
+                        "duplicate-species",
+                        file,
+                        alias.span,
+                        format!("the alias `{}` is declared twice", alias.text),
+                    )
+                    .with_related(
+                        prev_loc.file,
+                        prev_loc.span,
+                        "first declared here",
+                    ),
+                );
+                return;
+            }
+            let id = self.new_species(alias.text.clone(), Some(alias.text.clone()), parsed, loc);
+            self.lib.species[id.0 as usize].declared = Some(loc);
+            self.aliases.insert(alias.text.clone(), id);
+            id
+        } else {
+            let key = formula_key(&parsed);
+            match self.by_key.get(&key).copied() {
+                Some(prev) if self.lib.species(prev).declared.is_some() => {
+                    let prev_loc = self.lib.species(prev).declared.unwrap_or(loc);
+                    self.push(
+                        Diagnostic::new(
+                            "duplicate-species",
+                            file,
+                            formula_name.span,
+                            format!("`{}` is declared twice", formula_name.text),
+                        )
+                        .with_related(prev_loc.file, prev_loc.span, "first declared here")
+                        .with_help("merge the two declarations, or give one an alias"),
+                    );
+                    return;
+                }
+                Some(prev) => {
+                    self.lib.species[prev.0 as usize].declared = Some(loc);
+                    prev
+                }
+                None => {
+                    let id = self.new_species(formula_name.text.clone(), None, parsed, loc);
+                    self.lib.species[id.0 as usize].declared = Some(loc);
+                    self.by_key.insert(key, id);
+                    id
+                }
+            }
+        };
+        let mut data = SpeciesData::default();
+        for a in &s.attributes {
+            let slot = match a.name.text.as_str() {
+                "dHf" => Some((&mut data.dhf, Kind::Energy)),
+                "dGf" => Some((&mut data.dgf, Kind::Energy)),
+                "S" => Some((&mut data.s, Kind::Entropy)),
+                "Cp" => Some((&mut data.cp, Kind::Entropy)),
+                "source" => {
+                    data.source = self.text_value(file, a);
+                    None
+                }
+                _ => {
+                    self.unknown_attribute(file, a, SPECIES_ATTRIBUTES, "a species");
+                    None
+                }
+            };
+            if let Some((slot, kind)) = slot
+                && let Some(d) = self.datum(file, reader, a, kind)
+            {
+                *slot = Some(d);
+            }
+        }
+        self.lib.species[id.0 as usize].data = data;
+    }
+
+    fn reading_note(&mut self, file: FileId, name: &ast::Name, f: &crate::chem::formula::Formula) {
+        if let Some(note) = &f.reading_note
+            && !self.by_text.contains_key(&name.text)
+        {
+            self.push(
+                Diagnostic::new("ambiguous-formula", file, name.span, note.clone())
+                    .with_severity(crate::diagnostic::Severity::Hint),
+            );
+        }
+    }
+
+    fn new_species(
+        &mut self,
+        name: String,
+        alias: Option<String>,
+        formula: crate::chem::formula::Formula,
+        loc: Loc,
+    ) -> SpeciesId {
+        let id = SpeciesId(self.lib.species.len() as u32);
+        self.lib.species.push(Species {
+            name,
+            alias,
+            formula,
+            declared: None,
+            first_use: loc,
+            data: SpeciesData::default(),
+        });
+        id
+    }
+
+    /// Resolve a species as written in an equation or a mixture.
+    fn resolve(&mut self, file: FileId, name: &ast::Name) -> Option<SpeciesId> {
+        if let Some(r) = self.by_text.get(&name.text).copied() {
+            if r.is_none() {
+                // Report every failing occurrence, not only the first.
+                self.report_unresolved(file, name);
+            }
+            return r;
+        }
+        let resolved = self.resolve_new(file, name);
+        self.by_text.insert(name.text.clone(), resolved);
+        resolved
+    }
+
+    fn resolve_new(&mut self, file: FileId, name: &ast::Name) -> Option<SpeciesId> {
+        if let Some(id) = self.aliases.get(&name.text) {
+            return Some(*id);
+        }
+        if !looks_like_formula(&name.text) {
+            self.report_unresolved(file, name);
+            return None;
+        }
+        match parse_formula(&name.text) {
+            Ok(f) => {
+                self.reading_note(file, name, &f);
+                let key = formula_key(&f);
+                if let Some(id) = self.by_key.get(&key) {
+                    return Some(*id);
+                }
+                let id = self.new_species(name.text.clone(), None, f, Loc::new(file, name.span));
+                self.by_key.insert(key, id);
+                Some(id)
+            }
+            Err(_) => {
+                self.formula_error(file, name.span, &name.text);
+                None
+            }
+        }
+    }
+
+    fn report_unresolved(&mut self, file: FileId, name: &ast::Name) {
+        if looks_like_formula(&name.text) {
+            self.formula_error(file, name.span, &name.text);
+            return;
+        }
+        let nearest = self
+            .aliases
+            .keys()
+            .map(|a| (strsim::levenshtein(a, &name.text), a.clone()))
+            .filter(|(d, a)| *d <= 2.max(a.len() / 3))
+            .min();
+        let mut d = Diagnostic::new(
+            "unknown-species",
+            file,
+            name.span,
+            format!(
+                "`{}` is neither a declared alias nor a formula",
+                truncate(&name.text, 40)
+            ),
+        );
+        d = match nearest {
+            Some((_, a)) => d.with_help(format!("did you mean `{a}`?")).with_fix(Fix {
+                title: format!("write `{a}`"),
+                applicability: Applicability::Unsafe,
+                edits: vec![TextEdit {
+                    file,
+                    span: name.span,
+                    new_text: a,
+                }],
+            }),
+            None => d.with_help(format!(
+                "declare it (`species {} = FORMULA`) or write the formula; formulas start with an uppercase element symbol",
+                truncate(&name.text, 30)
+            )),
+        };
+        self.push(d);
+    }
+
+    fn unknown_attribute(&mut self, file: FileId, a: &ast::Attribute, known: &[&str], what: &str) {
+        let nearest = known
+            .iter()
+            .map(|k| {
+                let exact_case = k.eq_ignore_ascii_case(&a.name.text);
+                (
+                    if exact_case {
+                        0
+                    } else {
+                        strsim::levenshtein(k, &a.name.text) + 1
+                    },
+                    *k,
+                )
+            })
+            .min()
+            .filter(|(d, _)| *d <= 3);
+        let mut d = Diagnostic::new(
+            "unknown-attribute",
+            file,
+            a.name.span,
+            format!("{what} has no attribute `{}`", truncate(&a.name.text, 30)),
+        );
+        d = match nearest {
+            Some((_, k)) => d.with_help(format!("did you mean `{k}`?")).with_fix(Fix {
+                title: format!("write `{k}`"),
+                applicability: Applicability::Unsafe,
+                edits: vec![TextEdit {
+                    file,
+                    span: a.name.span,
+                    new_text: k.to_string(),
+                }],
+            }),
+            None => d.with_help(format!("{what} takes {}", known.join(", "))),
+        };
+        self.push(d);
+    }
+
+    fn text_value(&mut self, file: FileId, a: &ast::Attribute) -> Option<String> {
+        match &a.value.kind {
+            ValueKind::Text(t) => Some(t.clone()),
+            ValueKind::Missing => None,
+            _ => {
+                self.push(
+                    Diagnostic::new(
+                        "syntax",
+                        file,
+                        a.value.span,
+                        format!("`{}` takes a string in double quotes", a.name.text),
+                    )
+                    .with_help(format!("write `{} = \"...\"`", a.name.text)),
+                );
+                None
+            }
+        }
+    }
+
+    /// A quantity attribute read as `kind`, with its `at` temperature.
+    fn datum(
+        &mut self,
+        file: FileId,
+        reader: &UnitReader,
+        a: &ast::Attribute,
+        kind: Kind,
+    ) -> Option<Datum> {
+        let q = self.quantity(file, a)?;
+        let (value, _) = reader.read(q, kind, &a.name.text, &mut self.diags)?;
+        let (at_k, at_explicit) = self.at(reader, q);
+        Some(Datum {
+            value,
+            loc: Loc::new(file, a.span),
+            at_k,
+            at_explicit,
+        })
+    }
+
+    fn at(&mut self, reader: &UnitReader, q: &ast::Quantity) -> (f64, bool) {
+        match &q.at {
+            Some(t) => match reader.read(t, Kind::Temperature, "at", &mut self.diags) {
+                Some((k, _)) => (k, true),
+                None => (crate::units::constants::STANDARD_TEMPERATURE, true),
+            },
+            None => (crate::units::constants::STANDARD_TEMPERATURE, false),
+        }
+    }
+
+    fn quantity<'a>(&mut self, file: FileId, a: &'a ast::Attribute) -> Option<&'a ast::Quantity> {
+        match &a.value.kind {
+            ValueKind::Quantity(q) => Some(q),
+            ValueKind::Missing => None,
+            ValueKind::Word(w) => {
+                let lower = w.to_ascii_lowercase();
+                let message =
+                    if ["nan", "inf", "infinity", "-inf", "+inf"].contains(&lower.as_str()) {
+                        format!("`{}` takes a finite number, found `{w}`", a.name.text)
+                    } else {
+                        format!(
+                            "`{}` takes a number, found `{}`",
+                            a.name.text,
+                            truncate(w, 30)
+                        )
+                    };
+                self.push(Diagnostic::new("syntax", file, a.value.span, message));
+                None
+            }
+            _ => {
+                self.push(Diagnostic::new(
+                    "syntax",
+                    file,
+                    a.value.span,
+                    format!("`{}` takes a number", a.name.text),
+                ));
+                None
+            }
+        }
+    }
+
+    fn reaction_statement(
+        &mut self,
+        file: FileId,
+        reader: &UnitReader,
+        s: &Statement,
+        label: Option<&ast::Name>,
+        equation: Option<&ast::Equation>,
+    ) {
+        let Some(eq) = equation else { return };
+        let label_loc = label.map(|l| Loc::new(file, l.span));
+        if let Some(l) = label {
+            if let Some(prev) = self.labels.get(&l.text).copied() {
+                self.push(
+                    Diagnostic::new(
+                        "duplicate-label",
+                        file,
+                        l.span,
+                        format!("the label `{}` is used twice", l.text),
+                    )
+                    .with_related(prev.file, prev.span, "first used here")
+                    .with_help("labels are unique in a file and the files it uses"),
+                );
+            } else {
+                self.labels.insert(l.text.clone(), Loc::new(file, l.span));
+            }
+        }
+        let mut terms = Vec::new();
+        let mut complete = true;
+        for (side, list) in [(Side::Left, &eq.left), (Side::Right, &eq.right)] {
+            for t in list {
+                match self.resolve(file, &t.species) {
+                    Some(species) => terms.push(Term {
+                        species,
+                        coefficient: t.coefficient_value(),
+                        side,
+                        loc: Loc::new(file, t.span),
+                    }),
+                    None => complete = false,
+                }
+            }
+        }
+        let header_end = eq.span.end;
+        let mut reaction = Reaction {
+            label: label.map(|l| l.text.clone()),
+            label_loc,
+            loc: Loc::new(file, crate::span::Span::new(s.keyword.start, header_end)),
+            statement_loc: Loc::new(file, s.span),
+            equation_loc: Loc::new(file, eq.span),
+            arrow: eq.arrow.kind,
+            arrow_loc: Loc::new(file, eq.arrow.span),
+            terms,
+            complete,
+            balanced: false,
+            k: Vec::new(),
+            dg: Vec::new(),
+            dh: Vec::new(),
+            ds: Vec::new(),
+            rates: Vec::new(),
+            source: None,
+        };
+        if eq.arrow.kind == ArrowKind::Resonance {
+            self.push(
+                Diagnostic::new(
+                    "resonance-arrow",
+                    file,
+                    eq.arrow.span,
+                    "`<->` means resonance between structures, not a chemical equilibrium",
+                )
+                .with_help("use `<=>` (or `⇌`) for an equilibrium")
+                .with_fix(Fix {
+                    title: "replace the arrow with `<=>`".into(),
+                    applicability: Applicability::Safe,
+                    edits: vec![TextEdit {
+                        file,
+                        span: eq.arrow.span,
+                        new_text: "<=>".into(),
+                    }],
+                }),
+            );
+        }
+        if complete {
+            reaction.balanced = self.check_balance(file, eq, &reaction);
+        }
+        self.reaction_attributes(file, reader, s, &mut reaction);
+        self.lib.reactions.push(reaction);
+    }
+
+    fn reaction_attributes(
+        &mut self,
+        file: FileId,
+        reader: &UnitReader,
+        s: &Statement,
+        r: &mut Reaction,
+    ) {
+        for a in &s.attributes {
+            let name = a.name.text.as_str();
+            match name {
+                "K" | "logK" | "pK" | "Kc" | "Kp" => {
+                    let form = match name {
+                        "K" => KForm::K,
+                        "logK" => KForm::LogK,
+                        "pK" => KForm::PK,
+                        "Kc" => KForm::Kc,
+                        _ => KForm::Kp,
+                    };
+                    if let Some(k) = self.k_value(file, reader, a, form) {
+                        r.k.push(k);
+                    }
+                }
+                "dG" | "dH" => {
+                    if let Some(d) = self.datum(file, reader, a, Kind::Energy) {
+                        if name == "dG" {
+                            r.dg.push(d)
+                        } else {
+                            r.dh.push(d)
+                        }
+                    }
+                }
+                "dS" => {
+                    if let Some(d) = self.datum(file, reader, a, Kind::Entropy) {
+                        r.ds.push(d);
+                    }
+                }
+                "kf" | "kr" | "k" => {
+                    let kind = if name == "kr" {
+                        RateKind::Reverse
+                    } else {
+                        RateKind::Forward
+                    };
+                    if let Some(rate) = self.rate(file, reader, a, kind, r) {
+                        r.rates.push(rate);
+                    }
+                }
+                "source" => r.source = self.text_value(file, a),
+                _ => self.unknown_attribute(file, a, REACTION_ATTRIBUTES, "a reaction"),
+            }
+        }
+    }
+
+    fn k_value(
+        &mut self,
+        file: FileId,
+        reader: &UnitReader,
+        a: &ast::Attribute,
+        form: KForm,
+    ) -> Option<KValue> {
+        let q = self.quantity(file, a)?;
+        let kind = match form {
+            KForm::Kc | KForm::Kp => Kind::Free,
+            _ => Kind::Dimensionless,
+        };
+        let (si, dimension) = reader.read(q, kind, &a.name.text, &mut self.diags)?;
+        let ln_si = match form {
+            KForm::LogK => Some(q.number * std::f64::consts::LN_10),
+            KForm::PK => Some(-q.number * std::f64::consts::LN_10),
+            _ if si > 0.0 => Some(si.ln()),
+            _ => {
+                self.push(
+                    Diagnostic::new(
+                        "syntax",
+                        file,
+                        q.number_span,
+                        format!("{} must be positive, found {}", a.name.text, q.number),
+                    )
+                    .with_help("an equilibrium constant is a ratio of activities and is always greater than zero"),
+                );
+                None
+            }
+        };
+        let (at_k, at_explicit) = self.at(reader, q);
+        Some(KValue {
+            form,
+            number: q.number,
+            ln_si,
+            at_k,
+            at_explicit,
+            loc: Loc::new(file, a.span),
+            number_loc: Loc::new(file, q.number_span),
+            unit_loc: q.unit.as_ref().map(|u| Loc::new(file, u.span)),
+            dimension,
+        })
+    }
+
+    fn rate(
+        &mut self,
+        file: FileId,
+        reader: &UnitReader,
+        a: &ast::Attribute,
+        kind: RateKind,
+        r: &Reaction,
+    ) -> Option<Rate> {
+        let loc = Loc::new(file, a.span);
+        match &a.value.kind {
+            ValueKind::Arrhenius(args) => {
+                let mut pre = None;
+                let mut n = 0.0;
+                let mut ea = 0.0;
+                let mut dimension = None;
+                for arg in args {
+                    match arg.name.text.as_str() {
+                        "A" => {
+                            let q = self.quantity(file, arg)?;
+                            let (v, dim) = reader.read(q, Kind::Free, "A", &mut self.diags)?;
+                            pre = Some(v);
+                            dimension = dim;
+                        }
+                        "n" => {
+                            let q = self.quantity(file, arg)?;
+                            let (v, _) =
+                                reader.read(q, Kind::Dimensionless, "n", &mut self.diags)?;
+                            n = v;
+                        }
+                        "Ea" => {
+                            let q = self.quantity(file, arg)?;
+                            let (v, _) =
+                                reader.read(q, Kind::ActivationEnergy, "Ea", &mut self.diags)?;
+                            ea = v;
+                        }
+                        _ => self.unknown_attribute(file, arg, ARRHENIUS_ARGUMENTS, "`arrhenius`"),
+                    }
+                }
+                let Some(a_value) = pre else {
+                    self.push(Diagnostic::new(
+                        "syntax",
+                        file,
+                        a.value.span,
+                        "`arrhenius` needs the pre-exponential factor `A`",
+                    ));
+                    return None;
+                };
+                Some(Rate {
+                    kind,
+                    law: RateLaw::Arrhenius { a: a_value, n, ea },
+                    at_k: crate::units::constants::STANDARD_TEMPERATURE,
+                    at_explicit: false,
+                    loc,
+                    dimension,
+                })
+            }
+            _ => {
+                let q = self.quantity(file, a)?;
+                let (v, dim) = reader.read(q, Kind::Free, &a.name.text, &mut self.diags)?;
+                if a.name.text == "k" && r.reversible() && q.unit.is_none() {
+                    self.push(
+                        Diagnostic::new(
+                            "lowercase-k",
+                            file,
+                            a.name.span,
+                            "a dimensionless `k` on a reversible reaction: `k` is a rate constant, `K` an equilibrium constant",
+                        )
+                        .with_help("write `K` for the equilibrium constant, or give `k` its rate unit")
+                        .with_fix(Fix {
+                            title: "write `K`".into(),
+                            applicability: Applicability::Unsafe,
+                            edits: vec![TextEdit { file, span: a.name.span, new_text: "K".into() }],
+                        }),
+                    );
+                    return None;
+                }
+                let (at_k, at_explicit) = self.at(reader, q);
+                Some(Rate {
+                    kind,
+                    law: RateLaw::Constant(v),
+                    at_k,
+                    at_explicit,
+                    loc,
+                    dimension: dim,
+                })
+            }
+        }
+    }
+
+    /// Element, charge and third-body balance; true when balanced.
+    fn check_balance(&mut self, file: FileId, eq: &ast::Equation, r: &Reaction) -> bool {
+        let all_species = std::mem::take(&mut self.lib.species);
+        let ok = self.check_balance_with(file, eq, r, &all_species);
+        self.lib.species = all_species;
+        ok
+    }
+
+    fn check_balance_with(
+        &mut self,
+        file: FileId,
+        eq: &ast::Equation,
+        r: &Reaction,
+        all: &[Species],
+    ) -> bool {
+        let species: Vec<&crate::chem::formula::Formula> = r
+            .terms
+            .iter()
+            .map(|t| &all[t.species.0 as usize].formula)
+            .collect();
+        let third = |side: Side| {
+            r.terms
+                .iter()
+                .filter(|t| {
+                    t.side == side
+                        && all[t.species.0 as usize].formula.kind == SpeciesKind::ThirdBody
+                })
+                .count()
+        };
+        let (m_left, m_right) = (third(Side::Left), third(Side::Right));
+        let mut ok = true;
+        if (m_left > 0) != (m_right > 0) {
+            let (present, missing) = if m_left > 0 {
+                ("left", "right")
+            } else {
+                ("right", "left")
+            };
+            let at = r
+                .terms
+                .iter()
+                .find(|t| all[t.species.0 as usize].formula.kind == SpeciesKind::ThirdBody)
+                .map(|t| t.loc.span)
+                .unwrap_or(eq.span);
+            self.push(
+                Diagnostic::new(
+                    "third-body",
+                    file,
+                    at,
+                    format!("the third body `M` is on the {present} side only"),
+                )
+                .with_help(format!("`M` is a collision partner that is never consumed: add `+ M` on the {missing} side")),
+            );
+            ok = false;
+        }
+        let signed: Vec<(Ratio<i64>, &crate::chem::formula::Formula)> = r
+            .terms
+            .iter()
+            .zip(&species)
+            .map(|(t, f)| {
+                (
+                    if t.side == Side::Left {
+                        -t.coefficient
+                    } else {
+                        t.coefficient
+                    },
+                    *f,
+                )
+            })
+            .collect();
+        let res = residuals(&signed);
+        let element_off: Vec<String> = res
+            .elements
+            .iter()
+            .filter(|e| e.left != e.right)
+            .map(|e| {
+                let sym = crate::chem::elements::by_z(e.z)
+                    .map(|x| x.symbol)
+                    .unwrap_or("?");
+                let diff = &e.right - &e.left;
+                let (more, by) = if diff > num_rational::BigRational::from_integer(0.into()) {
+                    ("right", diff)
+                } else {
+                    ("left", -diff)
+                };
+                format!(
+                    "{sym}: {} on the left, {} on the right ({} more on the {more})",
+                    e.left, e.right, by
+                )
+            })
+            .collect();
+        let charge_off = res.charge_left != res.charge_right;
+        if element_off.is_empty() && !charge_off {
+            return ok;
+        }
+        let fix = self.balance_fix(file, eq, r, &species);
+        if !element_off.is_empty() {
+            let message = if element_off.len() == 1 {
+                format!("not balanced: {}", element_off[0])
+            } else {
+                format!("not balanced: {}", element_off.join("; "))
+            };
+            let mut d = Diagnostic::new("element-balance", file, eq.span, message);
+            d = match &fix {
+                Ok(f) => d
+                    .with_help(format!("balanced: {}", f.edits[0].new_text))
+                    .with_fix(f.clone()),
+                Err(why) => d.with_help(why.clone()),
+            };
+            self.push(d);
+        }
+        if charge_off {
+            let mut d = Diagnostic::new(
+                "charge-balance",
+                file,
+                eq.span,
+                format!(
+                    "charge not balanced: {} on the left, {} on the right",
+                    signed_charge(&res.charge_left),
+                    signed_charge(&res.charge_right)
+                ),
+            );
+            if element_off.is_empty() {
+                d = match &fix {
+                    Ok(f) => d
+                        .with_help(format!("balanced: {}", f.edits[0].new_text))
+                        .with_fix(f.clone()),
+                    Err(why) => d.with_help(why.clone()),
+                };
+            } else {
+                d = d.with_help("electrons (`e-`) count as charge -1");
+            }
+            self.push(d);
+        }
+        false
+    }
+
+    /// The equation rewritten with its unique smallest balance, or why none.
+    fn balance_fix(
+        &self,
+        file: FileId,
+        eq: &ast::Equation,
+        r: &Reaction,
+        species: &[&crate::chem::formula::Formula],
+    ) -> Result<Fix, String> {
+        // Third bodies and photons take no part in the balance.
+        let n_left = eq.left.len();
+        match balance(species, n_left) {
+            BalanceOutcome::Unique(coefficients) => {
+                let text = &self.ws.file(file).text;
+                let arrow = &text[eq.arrow.span.range()];
+                let render = |terms: &[ast::Term], coefs: &[num_bigint::BigInt]| {
+                    terms
+                        .iter()
+                        .zip(coefs)
+                        .map(|(t, c)| {
+                            if *c == num_bigint::BigInt::from(1) {
+                                t.species.text.clone()
+                            } else {
+                                format!("{c} {}", t.species.text)
+                            }
+                        })
+                        .collect::<Vec<_>>()
+                        .join(" + ")
+                };
+                let left = render(&eq.left, &coefficients[..n_left]);
+                let right = render(&eq.right, &coefficients[n_left..]);
+                let _ = r;
+                Ok(Fix {
+                    title: "balance the equation".into(),
+                    applicability: Applicability::Safe,
+                    edits: vec![TextEdit {
+                        file,
+                        span: eq.span,
+                        new_text: format!("{left} {arrow} {right}"),
+                    }],
+                })
+            }
+            BalanceOutcome::NotUnique { independent } => Err(format!(
+                "these species admit {independent} independent balances, so no single one is offered; fix the coefficients by hand"
+            )),
+            BalanceOutcome::Impossible(why) => {
+                let names: Vec<&str> = eq
+                    .left
+                    .iter()
+                    .chain(&eq.right)
+                    .map(|t| t.species.text.as_str())
+                    .collect();
+                Err(format!("no balance exists: {}", why.message(&names)))
+            }
+        }
+    }
+
+    fn mixture_statement(
+        &mut self,
+        file: FileId,
+        reader: &UnitReader,
+        s: &Statement,
+        name: Option<&ast::Name>,
+    ) {
+        let Some(name) = name else { return };
+        let mut m = Mixture {
+            name: name.text.clone(),
+            loc: Loc::new(file, s.span),
+            temperature_k: None,
+            pressure: None,
+            volume: None,
+            davies: false,
+            entries: Vec::new(),
+        };
+        for a in &s.attributes {
+            match a.name.text.as_str() {
+                "temperature" => {
+                    if let Some(q) = self.quantity(file, a) {
+                        m.temperature_k = reader
+                            .read(q, Kind::Temperature, "temperature", &mut self.diags)
+                            .map(|x| x.0);
+                    }
+                }
+                "pressure" => {
+                    if let Some(q) = self.quantity(file, a) {
+                        m.pressure = reader
+                            .read(q, Kind::Pressure, "pressure", &mut self.diags)
+                            .map(|x| x.0);
+                    }
+                }
+                "volume" => {
+                    if let Some(q) = self.quantity(file, a) {
+                        m.volume = reader
+                            .read(q, Kind::Volume, "volume", &mut self.diags)
+                            .map(|x| x.0);
+                    }
+                }
+                "activity" => match &a.value.kind {
+                    ValueKind::Word(w) if w == "davies" => m.davies = true,
+                    ValueKind::Word(w) if w == "ideal" => m.davies = false,
+                    _ => self.push(
+                        Diagnostic::new(
+                            "syntax",
+                            file,
+                            a.value.span,
+                            "`activity` is `ideal` or `davies`",
+                        )
+                        .with_help(
+                            "`activity = davies` applies the Davies equation to aqueous ions",
+                        ),
+                    ),
+                },
+                text if looks_like_formula(text) || self.aliases.contains_key(text) => {
+                    let Some(species) = self.resolve(file, &a.name) else {
+                        continue;
+                    };
+                    let Some(q) = self.quantity(file, a) else {
+                        continue;
+                    };
+                    let Some((value, dim)) =
+                        reader.read(q, Kind::MixtureAmount, text, &mut self.diags)
+                    else {
+                        continue;
+                    };
+                    let kind = super::quantity::amount_kind(dim);
+                    if value < 0.0 {
+                        self.push(Diagnostic::new(
+                            "mixture",
+                            file,
+                            q.number_span,
+                            format!("`{}` has a negative amount", truncate(text, 30)),
+                        ));
+                        continue;
+                    }
+                    if let Some(kind) = kind {
+                        m.entries.push(MixtureEntry {
+                            species,
+                            name: text.to_string(),
+                            kind,
+                            value,
+                            loc: Loc::new(file, a.span),
+                            name_loc: Loc::new(file, a.name.span),
+                        });
+                    }
+                }
+                _ => {
+                    let d = if a.name.text.chars().next().is_some_and(|c| c.is_lowercase())
+                        && MIXTURE_ATTRIBUTES
+                            .iter()
+                            .all(|k| strsim::levenshtein(k, &a.name.text) > 3)
+                    {
+                        // A lowercase name that is no attribute: an undeclared alias.
+                        self.report_unresolved(file, &a.name);
+                        continue;
+                    } else {
+                        a
+                    };
+                    self.unknown_attribute(file, d, MIXTURE_ATTRIBUTES, "a mixture");
+                }
+            }
+        }
+        self.lib.mixtures.push(m);
+    }
+}
+
+fn signed_charge(q: &num_rational::BigRational) -> String {
+    let zero = num_rational::BigRational::from_integer(0.into());
+    if *q > zero {
+        format!("+{q}")
+    } else {
+        q.to_string()
+    }
+}

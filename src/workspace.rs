@@ -1,0 +1,298 @@
+//! The files of one analysis: reading them, following `use`, and keeping
+//! their text, line index and syntax tree together.
+//!
+//! Reading goes through a [`FileSource`] so that the language server can
+//! serve the editor's unsaved text and the CLI can serve standard input;
+//! everything else sees only [`SourceText`]s addressed by [`FileId`].
+
+use crate::config::absolute;
+use crate::diagnostic::Diagnostic;
+use crate::span::{FileId, Span};
+use crate::syntax::ast::{SourceFile, StatementKind};
+use crate::syntax::line_index::LineIndex;
+use std::collections::HashMap;
+use std::path::{Path, PathBuf};
+
+/// Where file contents come from.
+pub trait FileSource {
+    fn read(&self, path: &Path) -> std::io::Result<Vec<u8>>;
+}
+
+/// The file system, with in-memory texts (unsaved editor buffers, standard
+/// input) taking precedence.
+#[derive(Default)]
+pub struct Overlay {
+    pub texts: HashMap<PathBuf, String>,
+}
+
+impl FileSource for Overlay {
+    fn read(&self, path: &Path) -> std::io::Result<Vec<u8>> {
+        match self.texts.get(path) {
+            Some(text) => Ok(text.clone().into_bytes()),
+            None => std::fs::read(path),
+        }
+    }
+}
+
+/// One file of the workspace with everything derived from its text.
+#[derive(Debug)]
+pub struct SourceText {
+    pub id: FileId,
+    pub path: PathBuf,
+    /// The path as reports show it (relative to the current directory when
+    /// possible).
+    pub display: String,
+    pub text: String,
+    pub index: LineIndex,
+    pub syntax: SourceFile,
+    /// The files this one uses, in order, each with the span of its path.
+    pub uses: Vec<(Span, FileId)>,
+}
+
+/// All files read for an analysis.
+pub struct Workspace {
+    pub root: PathBuf,
+    pub files: Vec<SourceText>,
+    by_path: HashMap<PathBuf, FileId>,
+    /// Problems met while reading: `use-error`, text that is not UTF-8.
+    pub diagnostics: Vec<Diagnostic>,
+}
+
+/// Why a root file could not be read at all (exit code 2 in the CLI).
+#[derive(Debug)]
+pub struct ReadError {
+    pub path: PathBuf,
+    pub error: std::io::Error,
+}
+
+impl Workspace {
+    pub fn new(root: &Path) -> Self {
+        Workspace {
+            root: absolute(root),
+            files: Vec::new(),
+            by_path: HashMap::new(),
+            diagnostics: Vec::new(),
+        }
+    }
+
+    pub fn file(&self, id: FileId) -> &SourceText {
+        &self.files[id.0 as usize]
+    }
+
+    pub fn id_of(&self, path: &Path) -> Option<FileId> {
+        self.by_path.get(&absolute(path)).copied()
+    }
+
+    /// Load a file and, transitively, every file it uses.
+    pub fn load(&mut self, path: &Path, source: &dyn FileSource) -> Result<FileId, ReadError> {
+        let path = absolute(path);
+        if let Some(id) = self.by_path.get(&path) {
+            return Ok(*id);
+        }
+        let bytes = source.read(&path).map_err(|error| ReadError {
+            path: path.clone(),
+            error,
+        })?;
+        let id = self.add_text(&path, bytes);
+        self.follow_uses(id, source);
+        Ok(id)
+    }
+
+    /// Add a file's bytes without following its uses.
+    fn add_text(&mut self, path: &Path, bytes: Vec<u8>) -> FileId {
+        let id = FileId(self.files.len() as u32);
+        let (text, bad_utf8) = match String::from_utf8(bytes) {
+            Ok(text) => (text, None),
+            Err(e) => {
+                let at = e.utf8_error().valid_up_to();
+                (String::from_utf8_lossy(e.as_bytes()).into_owned(), Some(at))
+            }
+        };
+        let syntax = crate::syntax::parse(&text);
+        let index = LineIndex::new(&text);
+        if let Some(at) = bad_utf8 {
+            let end = text[at..]
+                .chars()
+                .next()
+                .map(|c| at + c.len_utf8())
+                .unwrap_or(at);
+            self.diagnostics.push(
+                Diagnostic::new(
+                    "syntax",
+                    id,
+                    Span::new(at, end),
+                    format!("the file is not valid UTF-8 at byte {at}"),
+                )
+                .with_help("save the file as UTF-8; stoik read the bad bytes as `\u{fffd}`"),
+            );
+        }
+        self.by_path.insert(path.to_path_buf(), id);
+        self.files.push(SourceText {
+            id,
+            path: path.to_path_buf(),
+            display: display_path(path),
+            text,
+            index,
+            syntax,
+            uses: Vec::new(),
+        });
+        id
+    }
+
+    fn follow_uses(&mut self, start: FileId, source: &dyn FileSource) {
+        // Depth-first over the use graph with an explicit stack, so that a
+        // long chain of files cannot overflow the call stack.
+        let mut stack: Vec<(FileId, usize)> = vec![(start, 0)];
+        let mut on_path: Vec<FileId> = vec![start];
+        while let Some((file, next)) = stack.pop() {
+            let uses = self.use_paths(file);
+            if next >= uses.len() {
+                on_path.pop();
+                continue;
+            }
+            stack.push((file, next + 1));
+            let (span, rel) = &uses[next];
+            let dir = self.files[file.0 as usize]
+                .path
+                .parent()
+                .map(Path::to_path_buf)
+                .unwrap_or_default();
+            let target = absolute(&dir.join(rel));
+            if !target.starts_with(&self.root) {
+                self.diagnostics.push(
+                    Diagnostic::new(
+                        "use-error",
+                        file,
+                        *span,
+                        format!("`{}` lies outside the workspace root {}", rel, self.root.display()),
+                    )
+                    .with_help("a `use` path stays inside the folder that holds stoik.toml (or the repository)"),
+                );
+                continue;
+            }
+            if let Some(&existing) = self.by_path.get(&target) {
+                if let Some(pos) = on_path.iter().position(|f| *f == existing) {
+                    let chain: Vec<String> = on_path[pos..]
+                        .iter()
+                        .chain(std::iter::once(&existing))
+                        .map(|f| self.files[f.0 as usize].display.clone())
+                        .collect();
+                    self.diagnostics.push(
+                        Diagnostic::new(
+                            "use-error",
+                            file,
+                            *span,
+                            format!("this `use` closes a cycle: {}", chain.join(" -> ")),
+                        )
+                        .with_help("remove one `use` of the cycle; shared definitions belong in a file that uses none of them"),
+                    );
+                } else {
+                    self.files[file.0 as usize].uses.push((*span, existing));
+                }
+                continue;
+            }
+            match source.read(&target) {
+                Ok(bytes) => {
+                    let id = self.add_text(&target, bytes);
+                    self.files[file.0 as usize].uses.push((*span, id));
+                    on_path.push(id);
+                    stack.push((id, 0));
+                }
+                Err(e) => {
+                    let why = if e.kind() == std::io::ErrorKind::NotFound {
+                        "does not exist".to_string()
+                    } else {
+                        format!("cannot be read: {e}")
+                    };
+                    self.diagnostics.push(Diagnostic::new(
+                        "use-error",
+                        file,
+                        *span,
+                        format!("`{}` {} (looked for {})", rel, why, display_path(&target)),
+                    ));
+                }
+            }
+        }
+    }
+
+    fn use_paths(&self, file: FileId) -> Vec<(Span, String)> {
+        self.files[file.0 as usize]
+            .syntax
+            .statements
+            .iter()
+            .filter_map(|s| match &s.kind {
+                StatementKind::Use { path: Some(p) } => Some((p.span, p.value.clone())),
+                _ => None,
+            })
+            .collect()
+    }
+
+    /// A file and every file it uses, directly or not, each once, the used
+    /// files before their users.
+    pub fn closure(&self, start: FileId) -> Vec<FileId> {
+        let mut seen = vec![false; self.files.len()];
+        let mut order = Vec::new();
+        let mut stack = vec![(start, 0usize)];
+        seen[start.0 as usize] = true;
+        while let Some((file, next)) = stack.pop() {
+            let uses = &self.files[file.0 as usize].uses;
+            if next < uses.len() {
+                stack.push((file, next + 1));
+                let used = uses[next].1;
+                if !seen[used.0 as usize] {
+                    seen[used.0 as usize] = true;
+                    stack.push((used, 0));
+                }
+            } else {
+                order.push(file);
+            }
+        }
+        order
+    }
+
+    /// The files no other loaded file uses: the tops of the libraries.
+    pub fn tops(&self) -> Vec<FileId> {
+        let mut used = vec![false; self.files.len()];
+        for f in &self.files {
+            for (_, u) in &f.uses {
+                if *u != f.id {
+                    used[u.0 as usize] = true;
+                }
+            }
+        }
+        let mut tops: Vec<FileId> = self
+            .files
+            .iter()
+            .filter(|f| !used[f.id.0 as usize])
+            .map(|f| f.id)
+            .collect();
+        // Files that only appear inside cycles of use have no top; give each
+        // such group its first file.
+        let mut covered = vec![false; self.files.len()];
+        for t in &tops {
+            for f in self.closure(*t) {
+                covered[f.0 as usize] = true;
+            }
+        }
+        for f in &self.files {
+            if !covered[f.id.0 as usize] {
+                tops.push(f.id);
+                for g in self.closure(f.id) {
+                    covered[g.0 as usize] = true;
+                }
+            }
+        }
+        tops
+    }
+}
+
+/// A path as reports show it: relative to the current directory when it
+/// lies below it.
+pub fn display_path(path: &Path) -> String {
+    if let Ok(cwd) = std::env::current_dir()
+        && let Ok(rel) = path.strip_prefix(&cwd)
+    {
+        return rel.to_string_lossy().into_owned();
+    }
+    path.to_string_lossy().into_owned()
+}
