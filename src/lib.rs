@@ -13,4 +13,5 @@ pub mod diagnostic;
 pub mod equilibrium;
 pub mod rules;
 pub mod span;
+pub mod thermo;
 pub mod units;
