@@ -20,5 +20,6 @@ pub mod rules;
 pub mod span;
 pub mod suppression;
 pub mod syntax;
+pub mod thermo;
 pub mod units;
 pub mod workspace;

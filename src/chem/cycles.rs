@@ -1,0 +1,1 @@
+//! Linear dependence among reactions, found incrementally and exactly.
