@@ -15,6 +15,8 @@ pub mod cli;
 pub mod config;
 pub mod diagnostic;
 pub mod equilibrium;
+pub mod format;
+pub mod lsp;
 pub mod model;
 pub mod rules;
 pub mod span;

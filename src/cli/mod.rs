@@ -6,6 +6,7 @@
 mod balance;
 mod check;
 mod explain;
+mod fmt;
 pub mod render_human;
 pub mod render_json;
 pub mod render_sarif;
@@ -72,6 +73,16 @@ enum Command {
         #[arg(long, value_enum, default_value = "human")]
         format: DataFormat,
     },
+    /// Canonical layout; never changes meaning or drops a comment
+    Fmt {
+        /// Files or folders; default the current folder; `-` reads standard input
+        paths: Vec<PathBuf>,
+        /// Report files that are not formatted instead of rewriting them
+        #[arg(long)]
+        check: bool,
+    },
+    /// The language server on stdio
+    Lsp,
     /// What a rule checks, why it matters, how to fix it (no rule: list them all)
     Explain { rule: Option<String> },
 }
@@ -99,6 +110,8 @@ pub fn main() -> i32 {
             stdin_filename,
         } => check::run(&paths, format, deny.is_some(), stdin_filename.as_deref()),
         Command::Balance { equation, format } => balance::run(&equation, format),
+        Command::Fmt { paths, check } => fmt::run(&paths, check),
+        Command::Lsp => crate::lsp::run(),
         Command::Explain { rule } => explain::run(rule.as_deref()),
     }
 }

@@ -1,0 +1,1 @@
+//! The formatter shared by `stoik fmt` and the language server.
