@@ -13,7 +13,8 @@ local M = {}
 local defaults = {
   cmd = { 'stoik', 'lsp' },
   root_markers = { 'stoik.toml', '.git' },
-  settings = { stoik = { inlayHints = { enable = true } } },
+  init_options = { inlayHints = { enable = true } },
+  settings = {},
 }
 
 -- Returns the root folder for the buffer's file (works on every version:
@@ -43,6 +44,7 @@ local function start_for_buffer(bufnr, config)
       name = 'stoik',
       cmd = config.cmd,
       root_dir = root,
+      init_options = config.init_options,
       settings = config.settings,
     }, { bufnr = bufnr })
     return
@@ -53,6 +55,7 @@ local function start_for_buffer(bufnr, config)
       name = 'stoik',
       cmd = config.cmd,
       root_dir = root,
+      init_options = config.init_options,
       settings = config.settings,
     })
     clients_by_root[root] = id
@@ -70,6 +73,7 @@ function M.setup(opts)
       cmd = config.cmd,
       filetypes = { 'stoik' },
       root_markers = config.root_markers,
+      init_options = config.init_options,
       settings = config.settings,
     })
     vim.lsp.enable('stoik')
