@@ -22,6 +22,8 @@ syntax match stoikAttribute /\%(^units\s\+\|,\s*\)\@<=[a-z]\+\ze\s*=/
 " Arrows; the resonance arrows are rejected.
 syntax match stoikArrow /\s\@<=\%(<=>\|⇌\|⇄\|->\|→\|=\)\s\@=/
 syntax match stoikBadArrow /<->\|↔/
+" The ' + ' that joins terms (a '+' touching a formula is a charge).
+syntax match stoikArrow /\s\@<=+\s\@=/
 
 " Formula pieces.
 syntax match stoikPhase /(\%(g\|l\|s\|aq\))/
