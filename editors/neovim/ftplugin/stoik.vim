@@ -1,0 +1,9 @@
+" Buffer settings for stoik reaction libraries: '#' comments.
+if exists('b:did_ftplugin')
+  finish
+endif
+let b:did_ftplugin = 1
+
+setlocal commentstring=#\ %s
+setlocal comments=:#
+let b:undo_ftplugin = 'setlocal commentstring< comments<'
