@@ -18,6 +18,7 @@ pub mod equilibrium;
 pub mod format;
 pub mod lsp;
 pub mod model;
+pub mod reaction_k;
 pub mod rules;
 pub mod span;
 pub mod suppression;
