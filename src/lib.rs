@@ -19,6 +19,7 @@ pub mod format;
 pub mod lsp;
 pub mod model;
 pub mod reaction_k;
+pub mod report;
 pub mod rules;
 pub mod span;
 pub mod suppression;
