@@ -140,7 +140,7 @@ proptest! {
         }
         let unit = parse_unit(&text);
         prop_assert!(unit.is_ok(), "{}: {:?}", text, unit);
-        let unit = unit.unwrap();
+        let unit = unit.expect("checked above");
         prop_assert!(unit.factor.is_finite() && unit.factor > 0.0);
     }
 }

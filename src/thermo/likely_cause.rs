@@ -431,6 +431,7 @@ fn candidates(s: f64, e: f64, ctx: &CauseContext) -> Vec<(LikelyCause, f64, f64)
 }
 
 #[cfg(test)]
+#[allow(clippy::unwrap_used)] // Tests may panic on a broken expectation.
 mod tests {
     use super::*;
     use crate::thermo::standard_state::{ln_k_from_kc, ln_k_from_kp, ln_kc_molar_from_ln_k};

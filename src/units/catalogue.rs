@@ -124,6 +124,7 @@ pub fn suggest(name: &str) -> Vec<String> {
 }
 
 #[cfg(test)]
+#[allow(clippy::unwrap_used)] // Tests may panic on a broken expectation.
 mod tests {
     use super::*;
 

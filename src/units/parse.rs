@@ -374,6 +374,7 @@ fn expected_list(error: &Rich<'_, char>) -> String {
 }
 
 #[cfg(test)]
+#[allow(clippy::unwrap_used)] // Tests may panic on a broken expectation.
 mod tests {
     use super::*;
     use crate::units::constants::{AVOGADRO, CALORIE};
