@@ -331,6 +331,10 @@ fn syntax_error(text: &str, error: &Rich<'_, char>) -> UnitError {
             )
             .with_suggestions(vec!["*".to_string()])
         }
+        Some('.') if is_after_power(before) => UnitError::new(
+            span,
+            "unit powers must be whole numbers: write the unit without a fractional power",
+        ),
         Some(c) if c.is_ascii_digit() && before.ends_with(')') => {
             UnitError::new(span, "write a power of a group with `^`, as in `(mol/L)^2`")
                 .with_suggestions(vec![format!("^{c}")])
@@ -345,6 +349,17 @@ fn syntax_error(text: &str, error: &Rich<'_, char>) -> UnitError {
     }
 }
 
+/// True when `before` ends in `^` and an integer (`m^1` before `.5`).
+fn is_after_power(before: &str) -> bool {
+    match before.rsplit_once('^') {
+        Some((_, power)) => {
+            let digits = power.trim_start_matches(['+', '-', '\u{2212}', '(']);
+            !digits.is_empty() && digits.bytes().all(|b| b.is_ascii_digit())
+        }
+        None => false,
+    }
+}
+
 fn floor_boundary(text: &str, mut i: usize) -> usize {
     while i > 0 && !text.is_char_boundary(i) {
         i -= 1;
@@ -353,16 +368,31 @@ fn floor_boundary(text: &str, mut i: usize) -> usize {
 }
 
 fn expected_list(error: &Rich<'_, char>) -> String {
+    use chumsky::error::RichPattern;
+    let mut saw_digit = false;
     let mut items: Vec<String> = error
         .expected()
-        .map(|p| match p {
-            chumsky::error::RichPattern::Token(t) => format!("`{}`", **t),
-            chumsky::error::RichPattern::EndOfInput => "the end of the unit".to_string(),
-            other => other.to_string(),
+        .filter_map(|p| match p {
+            RichPattern::Token(t) => match **t {
+                '*' | '·' | '\u{22C5}' => Some("`*`".to_string()),
+                c if c.is_whitespace() => None,
+                c => Some(format!("`{c}`")),
+            },
+            RichPattern::EndOfInput => Some("the end of the unit".to_string()),
+            RichPattern::Label(l) if l == "digit" => {
+                saw_digit = true;
+                None
+            }
+            RichPattern::Label(l) if l.contains("whitespace") => None,
+            RichPattern::Label(l) => Some(l.to_string()),
+            _ => None,
         })
         .collect();
     items.sort();
     items.dedup();
+    if items.is_empty() && saw_digit {
+        items.push("a digit".to_string());
+    }
     match items.len() {
         0 => "a unit name".to_string(),
         1 => items.remove(0),
@@ -423,8 +453,12 @@ mod tests {
         let e = parse_unit("kJ/mole").unwrap_err();
         assert_eq!(e.span, 3..7);
         assert_eq!(e.suggestions.first().map(String::as_str), Some("mol"));
+        // Spans are byte ranges: `µ` takes two bytes.
         let e = parse_unit("µm/torr").unwrap_err();
-        assert_eq!(&"µm/torr"[e.span.clone()], "µm");
+        assert_eq!(e.span, 4..8);
+        assert_eq!(e.suggestions, vec!["Torr".to_string()]);
+        let e = parse_unit("µmolx").unwrap_err();
+        assert_eq!(&"µmolx"[e.span.clone()], "µmolx");
     }
 
     #[test]
@@ -439,6 +473,11 @@ mod tests {
         assert_eq!(e.suggestions, vec!["s^2".to_string()]);
         let e = parse_unit("(mol/L)2").unwrap_err();
         assert!(e.message.contains('^'), "{}", e.message);
+        let e = parse_unit("M^1.5").unwrap_err();
+        assert!(e.message.contains("whole numbers"), "{}", e.message);
+        let e = parse_unit("mol/L)").unwrap_err();
+        assert_eq!(e.span, 5..6);
+        assert!(!e.message.contains("whitespace"), "{}", e.message);
         let e = parse_unit("10*s").unwrap_err();
         assert_eq!(e.span, 0..2);
         assert!(parse_unit("").is_err());

@@ -66,6 +66,8 @@ UNITS = [
     ("kg", "kg"),
     ("m", "m"),
     ("cm", "cm"),
+    ("µm", "micrometer"),
+    ("um", "um"),
     ("L/(mol*s)", "L/(mol*s)"),
     ("cm3/(molecule*s)", "cm**3/(molecule*s)"),
     ("cm^6/(molecule^2*s)", "cm**6/(molecule**2*s)"),
