@@ -7,7 +7,7 @@
 use proptest::prelude::*;
 use serde_json::Value;
 use stoik::thermo::{ln_k_from_kc, ln_k_from_kp, ln_kc_molar_from_ln_k, ln_kp_bar_from_ln_k};
-use stoik::units::{Dimension, parse_unit};
+use stoik::units::{Dimension, parse_number, parse_unit};
 
 const PINT: &str = include_str!("reference/data/units_pint.json");
 
@@ -109,6 +109,24 @@ proptest! {
             prop_assert!(text.is_char_boundary(e.span.end));
             prop_assert!(!e.message.is_empty());
         }
+    }
+
+    #[test]
+    fn parse_number_never_panics_and_accepts_only_finite_values(text in "\\PC{0,30}") {
+        match parse_number(&text) {
+            Ok(x) => prop_assert!(x.is_finite()),
+            Err(e) => {
+                prop_assert!(e.span.start <= e.span.end && e.span.end <= text.len());
+                prop_assert!(text.is_char_boundary(e.span.start));
+                prop_assert!(text.is_char_boundary(e.span.end));
+            }
+        }
+    }
+
+    #[test]
+    fn numbers_round_trip(x in any::<f64>().prop_filter("finite", |x| x.is_finite())) {
+        // Rust's shortest round-trip formatting of f64 is the reference.
+        prop_assert_eq!(parse_number(&format!("{x:e}")), Ok(x));
     }
 
     #[test]

@@ -13,6 +13,8 @@
 //! temperature); inside a compound unit they are rejected with a pointer to
 //! K, because a compound of an offset scale has no single meaning.
 
+use std::cell::RefCell;
+use std::collections::HashMap;
 use std::ops::Range;
 
 use chumsky::prelude::*;
@@ -76,11 +78,46 @@ struct Term {
 type Value = Result<Term, UnitError>;
 type Extra<'a> = extra::Err<Rich<'a, char>>;
 
+/// How many distinct unit texts each thread remembers.
+const CACHE_CAPACITY: usize = 4096;
+
+thread_local! {
+    /// Results of recent parses: reaction libraries repeat a handful of unit
+    /// texts many thousands of times, and building the parser costs more
+    /// than looking a text up.
+    static CACHE: RefCell<HashMap<Box<str>, Result<Unit, UnitError>>> =
+        RefCell::new(HashMap::new());
+}
+
 /// Parses a unit expression into its SI factor, offset and dimension.
 ///
 /// Never panics. An empty text is an error (a dimensionless quantity is
-/// written without a unit, so the caller does not ask).
+/// written without a unit, so the caller does not ask). Results are
+/// remembered per thread for repeated texts.
 pub fn parse_unit(text: &str) -> Result<Unit, UnitError> {
+    if text.len() > 64 {
+        return parse_unit_uncached(text);
+    }
+    let cached = CACHE
+        .try_with(|c| c.try_borrow().ok().and_then(|m| m.get(text).cloned()))
+        .ok()
+        .flatten();
+    if let Some(result) = cached {
+        return result;
+    }
+    let result = parse_unit_uncached(text);
+    let _ = CACHE.try_with(|c| {
+        if let Ok(mut m) = c.try_borrow_mut() {
+            if m.len() >= CACHE_CAPACITY {
+                m.clear();
+            }
+            m.insert(text.into(), result.clone());
+        }
+    });
+    result
+}
+
+fn parse_unit_uncached(text: &str) -> Result<Unit, UnitError> {
     if text.trim().is_empty() {
         return Err(UnitError::new(
             text.len()..text.len(),
