@@ -25,7 +25,7 @@ pub(crate) struct Checked<'l> {
 
 /// The tolerance on ln K around `reference` for a relative tolerance.
 pub(crate) fn tolerance(reference: f64, rel: f64) -> f64 {
-    (rel * reference.abs()).max(crate::thermo::likely_cause::LN_K_ABS_FLOOR)
+    rel * reference.abs().max(crate::thermo::likely_cause::LN_K_SCALE_FLOOR)
 }
 
 /// A number for messages: 4 significant figures, scientific when large.
