@@ -19,7 +19,9 @@ use super::activity::{DAVIES_LIMIT_MOL_PER_L, activities};
 use super::newton::{ACTION_TOLERANCE, Action, BALANCE_TOLERANCE, Balance, State, System};
 use super::problem::{ActivityModel, Phase, Problem, validate};
 use super::solution::Solution;
-use super::stoichiometry::{independent_reactions, independent_rows, least_squares, null_space, reachable};
+use super::stoichiometry::{
+    independent_reactions, independent_rows, least_squares, null_space, null_space_ordered, reachable,
+};
 
 /// Driving force (in ln units) below which an absent condensed species counts
 /// as saturated rather than forming.
@@ -97,7 +99,18 @@ impl<'a> Solver<'a> {
         }
         let kept = independent.kept;
         let kept_nu = DMatrix::from_fn(kept.len(), s, |r, i| nu[(kept[r], i)]);
-        let conserved = null_space(&kept_nu);
+        // Small fluid amounts are eliminated first, abundant and condensed
+        // species last, so that the conserved quantities resemble element
+        // totals over a few abundant components.
+        let mut order: Vec<usize> = (0..s).collect();
+        order.sort_by(|&a, &b| {
+            let ca = problem.species[a].phase == Phase::Condensed;
+            let cb = problem.species[b].phase == Phase::Condensed;
+            ca.cmp(&cb)
+                .then(problem.species[a].initial_mol.total_cmp(&problem.species[b].initial_mol))
+                .then(a.cmp(&b))
+        });
+        let conserved = null_space_ordered(&kept_nu, &order);
         let reacting: Vec<bool> = (0..s).map(|i| kept.iter().any(|&r| nu[(r, i)] != 0.0)).collect();
         let initial: Vec<f64> = problem.species.iter().map(|x| x.initial_mol).collect();
         let reach = reachable(&nu, &kept, &initial);
