@@ -51,6 +51,35 @@ pub(crate) struct System<'a> {
     pub unknowns: Vec<usize>,
     pub actions: Vec<Action>,
     pub balances: Vec<Balance>,
+    /// A typical amount of the system, mol, for weighing condensed amounts.
+    pub amount_scale: f64,
+}
+
+/// A factorised Newton matrix: LU, or SVD when LU finds it singular.
+enum Linear {
+    Lu(nalgebra::linalg::LU<f64, nalgebra::Dyn, nalgebra::Dyn>),
+    Svd(nalgebra::linalg::SVD<f64, nalgebra::Dyn, nalgebra::Dyn>, f64),
+}
+
+impl Linear {
+    fn new(jac: DMatrix<f64>) -> Linear {
+        let lu = jac.clone().lu();
+        if lu.is_invertible() {
+            Linear::Lu(lu)
+        } else {
+            let svd = jac.svd(true, true);
+            let largest = svd.singular_values.iter().cloned().fold(0.0, f64::max);
+            Linear::Svd(svd, largest * 1e-14)
+        }
+    }
+
+    fn solve(&self, rhs: &DVector<f64>) -> Option<DVector<f64>> {
+        let x = match self {
+            Linear::Lu(lu) => lu.solve(rhs)?,
+            Linear::Svd(svd, eps) => svd.solve(rhs, *eps).ok()?,
+        };
+        x.iter().all(|v| v.is_finite()).then_some(x)
+    }
 }
 
 /// Amounts of every species and their logarithms.
@@ -175,6 +204,17 @@ impl System<'_> {
         jac
     }
 
+    /// The size of a step: ln n changes count as they are, condensed
+    /// amounts relative to the system's amount scale.
+    fn weighted_norm(&self, step: &DVector<f64>) -> f64 {
+        let mut sum = 0.0;
+        for (j, &i) in self.unknowns.iter().enumerate() {
+            let v = if self.is_fluid(i) { step[j] } else { step[j] / self.amount_scale };
+            sum += v * v;
+        }
+        sum.sqrt()
+    }
+
     fn apply(&self, state: &State, step: &DVector<f64>, t: f64) -> State {
         let mut next = state.clone();
         for (j, &i) in self.unknowns.iter().enumerate() {
@@ -210,16 +250,9 @@ impl System<'_> {
         for iteration in 1..=MAX_ITERATIONS {
             let jac = self.jacobian(state, &act);
             let rhs = -&f;
-            let step = match jac.clone().lu().solve(&rhs) {
-                Some(s) if s.iter().all(|x| x.is_finite()) => s,
-                _ => {
-                    let svd = jac.svd(true, true);
-                    let largest = svd.singular_values.iter().cloned().fold(0.0, f64::max);
-                    match svd.solve(&rhs, largest * 1e-14) {
-                        Ok(s) if s.iter().all(|x| x.is_finite()) => s,
-                        _ => return Err("the Newton system is singular".to_string()),
-                    }
-                }
+            let linear = Linear::new(jac);
+            let Some(step) = linear.solve(&rhs) else {
+                return Err("the Newton system is singular".to_string());
             };
             let mut largest_log = 0.0f64;
             for (j, &i) in self.unknowns.iter().enumerate() {
@@ -227,6 +260,7 @@ impl System<'_> {
                     largest_log = largest_log.max(step[j].abs());
                 }
             }
+            let step_norm = self.weighted_norm(&step);
             let mut t = if largest_log > MAX_LOG_STEP { MAX_LOG_STEP / largest_log } else { 1.0 };
             let mut accepted = None;
             let mut best: Option<(f64, State, DVector<f64>, Activities, f64)> = None;
@@ -235,7 +269,18 @@ impl System<'_> {
                 let (ft, at) = self.residual(&trial);
                 let pt = 0.5 * ft.norm_squared();
                 if pt.is_finite() {
-                    if pt <= phi * (1.0 - 2e-4 * t) {
+                    // Accept on a decrease of the squared residual (Armijo)
+                    // or on the natural monotonicity test, which does not
+                    // depend on how the equations are scaled: the simplified
+                    // Newton correction at the trial point must shrink
+                    // (Deuflhard, "Newton Methods for Nonlinear Problems",
+                    // Springer 2004, §3.3).
+                    let armijo = pt <= phi * (1.0 - 2e-4 * t);
+                    let natural = !armijo
+                        && linear
+                            .solve(&(-&ft))
+                            .is_some_and(|c| self.weighted_norm(&c) <= (1.0 - 0.25 * t) * step_norm);
+                    if armijo || natural {
                         accepted = Some((trial, ft, at, pt));
                         break;
                     }

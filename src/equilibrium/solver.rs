@@ -36,6 +36,20 @@ pub fn solve(problem: &Problem) -> Solution {
     Solver::new(problem).run()
 }
 
+/// A basis of the quantities the kept reactions conserve, as rows over all
+/// species. Species with small `ln_amounts` are eliminated first and
+/// condensed species last, so that each conservation law is dominated by
+/// abundant species and the trace ones follow from the mass-action laws.
+fn conserved_quantities(problem: &Problem, kept_nu: &DMatrix<f64>, ln_amounts: &[f64]) -> Vec<DVector<f64>> {
+    let mut order: Vec<usize> = (0..problem.species.len()).collect();
+    order.sort_by(|&a, &b| {
+        let ca = problem.species[a].phase == Phase::Condensed;
+        let cb = problem.species[b].phase == Phase::Condensed;
+        ca.cmp(&cb).then(ln_amounts[a].total_cmp(&ln_amounts[b])).then(a.cmp(&b))
+    });
+    null_space_ordered(kept_nu, &order)
+}
+
 /// Formats a coefficient for a message: integers without a decimal point.
 fn coefficient(c: f64) -> String {
     if (c - c.round()).abs() < 1e-9 {
@@ -99,18 +113,8 @@ impl<'a> Solver<'a> {
         }
         let kept = independent.kept;
         let kept_nu = DMatrix::from_fn(kept.len(), s, |r, i| nu[(kept[r], i)]);
-        // Small fluid amounts are eliminated first, abundant and condensed
-        // species last, so that the conserved quantities resemble element
-        // totals over a few abundant components.
-        let mut order: Vec<usize> = (0..s).collect();
-        order.sort_by(|&a, &b| {
-            let ca = problem.species[a].phase == Phase::Condensed;
-            let cb = problem.species[b].phase == Phase::Condensed;
-            ca.cmp(&cb)
-                .then(problem.species[a].initial_mol.total_cmp(&problem.species[b].initial_mol))
-                .then(a.cmp(&b))
-        });
-        let conserved = null_space_ordered(&kept_nu, &order);
+        let log_initial: Vec<f64> = problem.species.iter().map(|x| x.initial_mol.ln()).collect();
+        let conserved = conserved_quantities(problem, &kept_nu, &log_initial);
         let reacting: Vec<bool> = (0..s).map(|i| kept.iter().any(|&r| nu[(r, i)] != 0.0)).collect();
         let initial: Vec<f64> = problem.species.iter().map(|x| x.initial_mol).collect();
         let reach = reachable(&nu, &kept, &initial);
@@ -124,6 +128,12 @@ impl<'a> Solver<'a> {
             reach,
             initial,
         }
+    }
+
+    /// The total initial amount of the species that react, mol.
+    fn amount_scale(&self) -> f64 {
+        let total: f64 = (0..self.initial.len()).filter(|&i| self.reacting[i]).map(|i| self.initial[i]).sum();
+        total.max(f64::MIN_POSITIVE)
     }
 
     fn is_condensed(&self, i: usize) -> bool {
@@ -170,9 +180,13 @@ impl<'a> Solver<'a> {
                 state.set_amount(i, 0.0);
             }
         }
-        let mut present: Vec<bool> = (0..s)
-            .map(|i| self.reacting[i] && self.reach[i] && (!self.is_condensed(i) || self.initial[i] > 0.0))
-            .collect();
+        // Every condensed species that can form starts present (at its
+        // initial amount, possibly 0); the search removes the ones that come
+        // out negative. Starting a product solid absent would force its
+        // fluid co-products to zero, which the logarithmic unknowns cannot
+        // represent.
+        let present: Vec<bool> = (0..s).map(|i| self.reacting[i] && self.reach[i]).collect();
+        let mut present = present;
 
         let mut visited: HashSet<Vec<bool>> = HashSet::new();
         let mut iterations = 0;
@@ -219,12 +233,13 @@ impl<'a> Solver<'a> {
                 }
             }
             let unknowns: Vec<usize> = (0..s).filter(|&i| present[i]).collect();
-            let balances = self.balances(&unknowns, &state);
+            let balances = self.balances(&unknowns, &state, false);
             let system = System {
                 problem,
                 unknowns,
                 actions,
                 balances,
+                amount_scale: self.amount_scale(),
             };
             match system.solve(&mut state) {
                 Ok(k) => iterations += k,
@@ -260,6 +275,37 @@ impl<'a> Solver<'a> {
             outcome = Ok(system.actions);
             break;
         }
+        if outcome.is_ok() {
+            // Polish: with the conservation laws rebuilt around the
+            // equilibrium amounts and scaled by their size there, species
+            // that came out far below the abundant ones are resolved to full
+            // relative precision. Repeated while the logs still move.
+            let kept_nu = DMatrix::from_fn(self.kept.len(), s, |r, i| self.nu[(self.kept[r], i)]);
+            for _ in 0..12 {
+                self.conserved = conserved_quantities(problem, &kept_nu, &state.ln_n);
+                let unknowns: Vec<usize> = (0..s).filter(|&i| present[i]).collect();
+                let system = System {
+                    problem,
+                    actions: self.actions(&present),
+                    balances: self.balances(&unknowns, &state, true),
+                    unknowns,
+                    amount_scale: self.amount_scale(),
+                };
+                let mut polished = state.clone();
+                let Ok(k) = system.solve(&mut polished) else { break };
+                iterations += k;
+                let moved = system
+                    .unknowns
+                    .iter()
+                    .filter(|&&i| !self.is_condensed(i))
+                    .map(|&i| (polished.ln_n[i] - state.ln_n[i]).abs())
+                    .fold(0.0f64, f64::max);
+                state = polished;
+                if moved < 1e-12 {
+                    break;
+                }
+            }
+        }
         self.finish(state, present, used, iterations, outcome)
     }
 
@@ -294,8 +340,11 @@ impl<'a> Solver<'a> {
     }
 
     /// The conservation laws over the unknowns: independent restrictions of
-    /// the conserved quantities to the unknown species.
-    fn balances(&self, unknowns: &[usize], state: &State) -> Vec<Balance> {
+    /// the conserved quantities to the unknown species. Each is scaled by its
+    /// gross initial amount, or with `at_state` by its gross amount in
+    /// `state` (for polishing, so that a law among trace species is held to
+    /// their own size).
+    fn balances(&self, unknowns: &[usize], state: &State, at_state: bool) -> Vec<Balance> {
         let restricted: Vec<DVector<f64>> = self
             .conserved
             .iter()
@@ -313,7 +362,7 @@ impl<'a> Solver<'a> {
                         gross += row[i].abs() * self.initial[i];
                     }
                 }
-                if gross == 0.0 {
+                if gross == 0.0 || at_state {
                     gross = unknowns.iter().map(|&i| row[i].abs() * state.n[i].abs()).sum();
                 }
                 Balance {
