@@ -4,6 +4,8 @@
 //! volume and constant pressure, aqueous acid/base and complexation with
 //! charged species (ideal and Davies), and solids that may be used up.
 
+#![allow(clippy::unwrap_used)] // Tests may unwrap: a failure is the point.
+
 use serde_json::Value;
 use stoik::equilibrium::{ActivityModel, Phase, Problem, Reaction, Species, Vessel, solve};
 
@@ -129,11 +131,25 @@ fn matches_scipy_reference() {
         if system["has_dependent_reaction"] == true {
             dependent_cases += 1;
             if solution.left_out.len() != 1 {
-                failures.push(format!("{name}: expected one dependent reaction left out, got {:?}", solution.left_out));
+                failures.push(format!(
+                    "{name}: expected one dependent reaction left out, got {:?}",
+                    solution.left_out
+                ));
             }
         }
     }
-    assert!(vanished_cases >= 5, "too few used-up solids: {vanished_cases}");
-    assert!(dependent_cases >= 5, "too few dependent sets: {dependent_cases}");
-    assert!(failures.is_empty(), "{} failures:\n{}", failures.len(), failures.join("\n"));
+    assert!(
+        vanished_cases >= 5,
+        "too few used-up solids: {vanished_cases}"
+    );
+    assert!(
+        dependent_cases >= 5,
+        "too few dependent sets: {dependent_cases}"
+    );
+    assert!(
+        failures.is_empty(),
+        "{} failures:\n{}",
+        failures.len(),
+        failures.join("\n")
+    );
 }

@@ -58,7 +58,10 @@ pub(crate) struct System<'a> {
 /// A factorised Newton matrix: LU, or SVD when LU finds it singular.
 enum Linear {
     Lu(nalgebra::linalg::LU<f64, nalgebra::Dyn, nalgebra::Dyn>),
-    Svd(nalgebra::linalg::SVD<f64, nalgebra::Dyn, nalgebra::Dyn>, f64),
+    Svd(
+        nalgebra::linalg::SVD<f64, nalgebra::Dyn, nalgebra::Dyn>,
+        f64,
+    ),
 }
 
 impl Linear {
@@ -171,7 +174,9 @@ impl System<'_> {
             for (i, &c) in a.coefficients.iter().enumerate() {
                 match species[i].phase {
                     Phase::Gas => gas_sum += c,
-                    Phase::Solute => ion_sum += c * f64::from(species[i].charge * species[i].charge),
+                    Phase::Solute => {
+                        ion_sum += c * f64::from(species[i].charge * species[i].charge)
+                    }
                     Phase::Condensed => {}
                 }
             }
@@ -209,7 +214,11 @@ impl System<'_> {
     fn weighted_norm(&self, step: &DVector<f64>) -> f64 {
         let mut sum = 0.0;
         for (j, &i) in self.unknowns.iter().enumerate() {
-            let v = if self.is_fluid(i) { step[j] } else { step[j] / self.amount_scale };
+            let v = if self.is_fluid(i) {
+                step[j]
+            } else {
+                step[j] / self.amount_scale
+            };
             sum += v * v;
         }
         sum.sqrt()
@@ -261,7 +270,11 @@ impl System<'_> {
                 }
             }
             let step_norm = self.weighted_norm(&step);
-            let mut t = if largest_log > MAX_LOG_STEP { MAX_LOG_STEP / largest_log } else { 1.0 };
+            let mut t = if largest_log > MAX_LOG_STEP {
+                MAX_LOG_STEP / largest_log
+            } else {
+                1.0
+            };
             let mut accepted = None;
             let mut best: Option<(f64, State, DVector<f64>, Activities, f64)> = None;
             while t >= 1e-12 {
@@ -277,9 +290,9 @@ impl System<'_> {
                     // Springer 2004, §3.3).
                     let armijo = pt <= phi * (1.0 - 2e-4 * t);
                     let natural = !armijo
-                        && linear
-                            .solve(&(-&ft))
-                            .is_some_and(|c| self.weighted_norm(&c) <= (1.0 - 0.25 * t) * step_norm);
+                        && linear.solve(&(-&ft)).is_some_and(|c| {
+                            self.weighted_norm(&c) <= (1.0 - 0.25 * t) * step_norm
+                        });
                     if armijo || natural {
                         accepted = Some((trial, ft, at, pt));
                         break;

@@ -20,7 +20,8 @@ use super::newton::{ACTION_TOLERANCE, Action, BALANCE_TOLERANCE, Balance, State,
 use super::problem::{ActivityModel, Phase, Problem, validate};
 use super::solution::Solution;
 use super::stoichiometry::{
-    independent_reactions, independent_rows, least_squares, null_space, null_space_ordered, reachable,
+    independent_reactions, independent_rows, least_squares, null_space, null_space_ordered,
+    reachable,
 };
 
 /// Driving force (in ln units) below which an absent condensed species counts
@@ -40,12 +41,18 @@ pub fn solve(problem: &Problem) -> Solution {
 /// species. Species with small `ln_amounts` are eliminated first and
 /// condensed species last, so that each conservation law is dominated by
 /// abundant species and the trace ones follow from the mass-action laws.
-fn conserved_quantities(problem: &Problem, kept_nu: &DMatrix<f64>, ln_amounts: &[f64]) -> Vec<DVector<f64>> {
+fn conserved_quantities(
+    problem: &Problem,
+    kept_nu: &DMatrix<f64>,
+    ln_amounts: &[f64],
+) -> Vec<DVector<f64>> {
     let mut order: Vec<usize> = (0..problem.species.len()).collect();
     order.sort_by(|&a, &b| {
         let ca = problem.species[a].phase == Phase::Condensed;
         let cb = problem.species[b].phase == Phase::Condensed;
-        ca.cmp(&cb).then(ln_amounts[a].total_cmp(&ln_amounts[b])).then(a.cmp(&b))
+        ca.cmp(&cb)
+            .then(ln_amounts[a].total_cmp(&ln_amounts[b]))
+            .then(a.cmp(&b))
     });
     null_space_ordered(kept_nu, &order)
 }
@@ -88,7 +95,10 @@ impl<'a> Solver<'a> {
         let label = |r: usize| problem.reactions[r].label.clone();
         let mut left_out = Vec::new();
         for &r in &independent.empty {
-            left_out.push((r, "it changes nothing: every coefficient is zero".to_string()));
+            left_out.push((
+                r,
+                "it changes nothing: every coefficient is zero".to_string(),
+            ));
         }
         for (r, coefficients) in &independent.dropped {
             let terms: Vec<String> = coefficients
@@ -115,7 +125,9 @@ impl<'a> Solver<'a> {
         let kept_nu = DMatrix::from_fn(kept.len(), s, |r, i| nu[(kept[r], i)]);
         let log_initial: Vec<f64> = problem.species.iter().map(|x| x.initial_mol.ln()).collect();
         let conserved = conserved_quantities(problem, &kept_nu, &log_initial);
-        let reacting: Vec<bool> = (0..s).map(|i| kept.iter().any(|&r| nu[(r, i)] != 0.0)).collect();
+        let reacting: Vec<bool> = (0..s)
+            .map(|i| kept.iter().any(|&r| nu[(r, i)] != 0.0))
+            .collect();
         let initial: Vec<f64> = problem.species.iter().map(|x| x.initial_mol).collect();
         let reach = reachable(&nu, &kept, &initial);
         Solver {
@@ -132,7 +144,10 @@ impl<'a> Solver<'a> {
 
     /// The total initial amount of the species that react, mol.
     fn amount_scale(&self) -> f64 {
-        let total: f64 = (0..self.initial.len()).filter(|&i| self.reacting[i]).map(|i| self.initial[i]).sum();
+        let total: f64 = (0..self.initial.len())
+            .filter(|&i| self.reacting[i])
+            .map(|i| self.initial[i])
+            .sum();
         total.max(f64::MIN_POSITIVE)
     }
 
@@ -173,7 +188,8 @@ impl<'a> Solver<'a> {
         let positive: Vec<f64> = self.initial.iter().copied().filter(|&x| x > 0.0).collect();
         let guess = 1e-3 * positive.iter().sum::<f64>() / positive.len().max(1) as f64;
         for i in 0..s {
-            if self.reacting[i] && self.reach[i] && !self.is_condensed(i) && self.initial[i] == 0.0 {
+            if self.reacting[i] && self.reach[i] && !self.is_condensed(i) && self.initial[i] == 0.0
+            {
                 state.set_amount(i, guess);
             }
             if !self.reach[i] {
@@ -191,24 +207,29 @@ impl<'a> Solver<'a> {
         let mut visited: HashSet<Vec<bool>> = HashSet::new();
         let mut iterations = 0;
         let condensed_count = (0..s).filter(|&i| self.is_condensed(i)).count();
-        let mut outcome: Result<Vec<Action>, String> = Err("the active-set search did not run".to_string());
+        let mut outcome: Result<Vec<Action>, String> =
+            Err("the active-set search did not run".to_string());
         for _ in 0..(4 * condensed_count + 4) {
             if !visited.insert(present.clone()) {
-                outcome = Err("the set of present condensed species did not settle (it cycled)".to_string());
+                outcome = Err(
+                    "the set of present condensed species did not settle (it cycled)".to_string(),
+                );
                 break;
             }
-            for i in 0..s {
-                if self.is_condensed(i) && !present[i] {
+            for (i, &here) in present.iter().enumerate() {
+                if self.is_condensed(i) && !here {
                     state.set_amount(i, 0.0);
                 }
             }
             let actions = self.actions(&present);
             // A mass-action law among condensed species alone cannot hold:
             // the reaction runs until one of the species it consumes is gone.
-            if let Some(a) = actions
-                .iter()
-                .find(|a| a.coefficients.iter().enumerate().all(|(i, &c)| c == 0.0 || self.is_condensed(i)))
-            {
+            if let Some(a) = actions.iter().find(|a| {
+                a.coefficients
+                    .iter()
+                    .enumerate()
+                    .all(|(i, &c)| c == 0.0 || self.is_condensed(i))
+            }) {
                 if a.ln_k.abs() <= 1e-12 {
                     outcome = Err("a reaction among condensed species alone has K = 1, so their amounts are not fixed by equilibrium".to_string());
                     break;
@@ -257,14 +278,16 @@ impl<'a> Solver<'a> {
                 present[i] = false;
                 continue;
             }
-            for i in 0..s {
-                if self.is_condensed(i) && present[i] && state.n[i] < 0.0 {
+            for (i, &here) in present.iter().enumerate() {
+                if self.is_condensed(i) && here && state.n[i] < 0.0 {
                     state.set_amount(i, 0.0);
                 }
             }
             // An absent condensed species that would form is added.
             let forming = (0..s)
-                .filter(|&i| self.is_condensed(i) && self.reacting[i] && self.reach[i] && !present[i])
+                .filter(|&i| {
+                    self.is_condensed(i) && self.reacting[i] && self.reach[i] && !present[i]
+                })
                 .filter_map(|i| self.driving_force(i, &present, &state).map(|d| (i, d)))
                 .filter(|&(_, d)| d > SATURATION_TOLERANCE)
                 .max_by(|a, b| a.1.total_cmp(&b.1));
@@ -292,7 +315,9 @@ impl<'a> Solver<'a> {
                     amount_scale: self.amount_scale(),
                 };
                 let mut polished = state.clone();
-                let Ok(k) = system.solve(&mut polished) else { break };
+                let Ok(k) = system.solve(&mut polished) else {
+                    break;
+                };
                 iterations += k;
                 let moved = system
                     .unknowns
@@ -314,8 +339,12 @@ impl<'a> Solver<'a> {
     /// absent species.
     fn actions(&self, present: &[bool]) -> Vec<Action> {
         let s = self.problem.species.len();
-        let absent: Vec<usize> = (0..s).filter(|&i| self.reacting[i] && !present[i]).collect();
-        let m = DMatrix::from_fn(absent.len(), self.kept.len(), |z, r| self.nu[(self.kept[r], absent[z])]);
+        let absent: Vec<usize> = (0..s)
+            .filter(|&i| self.reacting[i] && !present[i])
+            .collect();
+        let m = DMatrix::from_fn(absent.len(), self.kept.len(), |z, r| {
+            self.nu[(self.kept[r], absent[z])]
+        });
         null_space(&m)
             .into_iter()
             .map(|alpha| {
@@ -363,7 +392,10 @@ impl<'a> Solver<'a> {
                     }
                 }
                 if gross == 0.0 || at_state {
-                    gross = unknowns.iter().map(|&i| row[i].abs() * state.n[i].abs()).sum();
+                    gross = unknowns
+                        .iter()
+                        .map(|&i| row[i].abs() * state.n[i].abs())
+                        .sum();
                 }
                 Balance {
                     coefficients: restricted[k].iter().copied().collect(),
@@ -378,9 +410,16 @@ impl<'a> Solver<'a> {
     /// species `c` from present species; positive means `c` would form.
     fn driving_force(&self, c: usize, present: &[bool], state: &State) -> Option<f64> {
         let s = self.problem.species.len();
-        let absent: Vec<usize> = (0..s).filter(|&i| self.reacting[i] && !present[i]).collect();
-        let m = DMatrix::from_fn(absent.len(), self.kept.len(), |z, r| self.nu[(self.kept[r], absent[z])]);
-        let target = DVector::from_iterator(absent.len(), absent.iter().map(|&z| if z == c { 1.0 } else { 0.0 }));
+        let absent: Vec<usize> = (0..s)
+            .filter(|&i| self.reacting[i] && !present[i])
+            .collect();
+        let m = DMatrix::from_fn(absent.len(), self.kept.len(), |z, r| {
+            self.nu[(self.kept[r], absent[z])]
+        });
+        let target = DVector::from_iterator(
+            absent.len(),
+            absent.iter().map(|&z| if z == c { 1.0 } else { 0.0 }),
+        );
         let alpha = DVector::from_vec(least_squares(&m, &target)?);
         if (&m * &alpha - &target).norm() > 1e-8 {
             return None;
@@ -391,9 +430,9 @@ impl<'a> Solver<'a> {
         for (r, &a) in alpha.iter().enumerate() {
             let k = self.kept[r];
             ln_k += a * self.problem.reactions[k].ln_k;
-            for i in 0..s {
+            for (i, &here) in present.iter().enumerate() {
                 let c = a * self.nu[(k, i)];
-                if c != 0.0 && present[i] && !self.is_condensed(i) {
+                if c != 0.0 && here && !self.is_condensed(i) {
                     ln_q += c * act.ln_a[i];
                 }
             }
@@ -454,7 +493,7 @@ impl<'a> Solver<'a> {
             .collect();
         let mut why = outcome.as_ref().err().cloned();
         if why.is_none() {
-            why = self.verify(&state, &amounts, &present, &ln_q, &used);
+            why = self.verify(&amounts, &present, &ln_q, &used);
         }
         let mut warning = None;
         if problem.activity == ActivityModel::Davies {
@@ -490,7 +529,13 @@ impl<'a> Solver<'a> {
     }
 
     /// Checks the converged criteria on the final amounts; returns what fails.
-    fn verify(&self, state: &State, amounts: &[f64], present: &[bool], ln_q: &[f64], used: &[usize]) -> Option<String> {
+    fn verify(
+        &self,
+        amounts: &[f64],
+        present: &[bool],
+        ln_q: &[f64],
+        used: &[usize],
+    ) -> Option<String> {
         let problem = self.problem;
         let s = problem.species.len();
         for row in &self.conserved {
@@ -507,20 +552,19 @@ impl<'a> Solver<'a> {
                 ));
             }
         }
-        let _ = state;
         for &r in used {
             let rx = &problem.reactions[r];
-            let absent: Vec<usize> = (0..s).filter(|&i| self.nu[(r, i)] != 0.0 && !present[i]).collect();
+            let absent: Vec<usize> = (0..s)
+                .filter(|&i| self.nu[(r, i)] != 0.0 && !present[i])
+                .collect();
             let gap = ln_q[r] - rx.ln_k;
             let tolerance = ACTION_TOLERANCE * rx.ln_k.abs().max(1.0);
             match absent.as_slice() {
-                [] => {
-                    if gap.is_nan() || gap.abs() > tolerance {
-                        return Some(format!(
-                            "reaction {} is off equilibrium: ln Q - ln K = {gap:.3e}",
-                            rx.label
-                        ));
-                    }
+                [] if gap.is_nan() || gap.abs() > tolerance => {
+                    return Some(format!(
+                        "reaction {} is off equilibrium: ln Q - ln K = {gap:.3e}",
+                        rx.label
+                    ));
                 }
                 [c] => {
                     // With its condensed species gone, the reaction must not

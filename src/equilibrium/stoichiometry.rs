@@ -52,7 +52,8 @@ pub(crate) fn independent_reactions(nu: &DMatrix<f64>) -> Independent {
         let kept_t = DMatrix::from_fn(nu.ncols(), kept.len(), |i, j| nu[(kept[j], i)]);
         for r in dropped_rows {
             let target: DVector<f64> = nu.row(r).transpose();
-            let coefficients = least_squares(&kept_t, &target).unwrap_or_else(|| vec![0.0; kept.len()]);
+            let coefficients =
+                least_squares(&kept_t, &target).unwrap_or_else(|| vec![0.0; kept.len()]);
             dropped.push((r, coefficients));
         }
     }
@@ -91,7 +92,10 @@ pub(crate) fn null_space(m: &DMatrix<f64>) -> Vec<DVector<f64>> {
 pub(crate) fn null_space_ordered(m: &DMatrix<f64>, order: &[usize]) -> Vec<DVector<f64>> {
     let (rows, cols) = m.shape();
     let mut a = m.clone();
-    let scale = a.iter().fold(0.0f64, |acc, x| acc.max(x.abs())).max(f64::MIN_POSITIVE);
+    let scale = a
+        .iter()
+        .fold(0.0f64, |acc, x| acc.max(x.abs()))
+        .max(f64::MIN_POSITIVE);
     let tol = RANK_TOLERANCE * scale;
     let mut pivots: Vec<(usize, usize)> = Vec::new();
     let mut free = Vec::new();
@@ -204,7 +208,8 @@ pub(crate) fn reachable(nu: &DMatrix<f64>, reactions: &[usize], initial: &[f64])
         matrix[(a + k, 2 * r + k)] = 1.0;
         rhs[a + k] = 1.0;
     }
-    let objective = DVector::from_iterator(vars, (0..vars).map(|v| if v >= 2 * r { 1.0 } else { 0.0 }));
+    let objective =
+        DVector::from_iterator(vars, (0..vars).map(|v| if v >= 2 * r { 1.0 } else { 0.0 }));
     match simplex_max(&matrix, &rhs, &objective) {
         Some(x) => {
             for (k, &j) in absent.iter().enumerate() {
@@ -256,7 +261,9 @@ fn simplex_max(a: &DMatrix<f64>, b: &DVector<f64>, c: &DVector<f64>) -> Option<V
                 let ratio = t[(i, width - 1)] / p;
                 let better = match leave {
                     None => true,
-                    Some((l, best)) => ratio < best - TOL || (ratio <= best + TOL && basis[i] < basis[l]),
+                    Some((l, best)) => {
+                        ratio < best - TOL || (ratio <= best + TOL && basis[i] < basis[l])
+                    }
                 };
                 if better {
                     leave = Some((i, ratio));

@@ -1,6 +1,8 @@
 //! Worked cases with named sources, extreme cases, and a property test that
 //! the solver never panics.
 
+#![allow(clippy::unwrap_used)] // Tests may unwrap: a failure is the point.
+
 use super::*;
 
 fn species(name: &str, phase: Phase, charge: i32, initial_mol: f64) -> Species {
@@ -86,13 +88,16 @@ fn acetate_buffer_henderson_hasselbalch() {
     // acetic acid, 1.75e-5. Here the full solution differs from it only by
     // the tiny dissociation x ≈ 1.75e-5 mol/L, well inside 0.001 pH units.
     let pka = -(1.75e-5f64).log10();
-    for (acid, base) in [(0.1, 0.1), (0.1, 0.05), (0.05, 0.2)] {
+    for (acid, base) in [(0.1f64, 0.1f64), (0.1, 0.05), (0.05, 0.2)] {
         let p = acid_problem(acid, base, 1.75e-5, ActivityModel::Ideal);
         let s = solve(&p);
         assert!(s.converged, "{:?}", s.why);
-        let expected = pka + (base / acid as f64).log10();
+        let expected = pka + (base / acid).log10();
         let ph = s.ph(&p).unwrap();
-        assert!((ph - expected).abs() < 1e-3, "pH {ph}, Henderson–Hasselbalch {expected}");
+        assert!(
+            (ph - expected).abs() < 1e-3,
+            "pH {ph}, Henderson–Hasselbalch {expected}"
+        );
     }
 }
 
@@ -157,7 +162,11 @@ fn precipitate_forms_from_solution() {
             species("X-", Phase::Solute, -1, 0.01),
             species("MX(s)", Phase::Condensed, 0, 0.0),
         ],
-        vec![reaction("precipitation", &[(0, -1.0), (1, -1.0), (2, 1.0)], 1e10)],
+        vec![reaction(
+            "precipitation",
+            &[(0, -1.0), (1, -1.0), (2, 1.0)],
+            1e10,
+        )],
         ActivityModel::Ideal,
     );
     let s = solve(&p);
@@ -220,7 +229,10 @@ fn davies_solution_is_consistent_and_warns_beyond_range() {
 
 fn isomerisation(k_ln: f64, a0: f64, b0: f64) -> Problem {
     Problem {
-        species: vec![species("A(g)", Phase::Gas, 0, a0), species("B(g)", Phase::Gas, 0, b0)],
+        species: vec![
+            species("A(g)", Phase::Gas, 0, a0),
+            species("B(g)", Phase::Gas, 0, b0),
+        ],
         reactions: vec![Reaction {
             label: "iso".to_string(),
             stoich: vec![(0, -1.0), (1, 1.0)],
@@ -242,8 +254,16 @@ fn extreme_constants_stay_in_range() {
         let ln_a = -(ln_k.exp() + 1.0).ln();
         let ln_a = if ln_a.is_finite() { ln_a } else { -ln_k };
         let ln_b = ln_k + ln_a;
-        assert!((s.ln_amounts[0] - ln_a).abs() < 1e-9, "{} vs {ln_a}", s.ln_amounts[0]);
-        assert!((s.ln_amounts[1] - ln_b).abs() < 1e-9, "{} vs {ln_b}", s.ln_amounts[1]);
+        assert!(
+            (s.ln_amounts[0] - ln_a).abs() < 1e-9,
+            "{} vs {ln_a}",
+            s.ln_amounts[0]
+        );
+        assert!(
+            (s.ln_amounts[1] - ln_b).abs() < 1e-9,
+            "{} vs {ln_b}",
+            s.ln_amounts[1]
+        );
     }
     // H2 + Cl2 ⇌ 2 HCl with K = 1e300 from 1 mol each: (2 - 2x)² / x² = K,
     // so x = 2 / (√K + 2) mol of each element gas is left.
@@ -261,7 +281,11 @@ fn extreme_constants_stay_in_range() {
     let s = solve(&p);
     assert!(s.converged, "{:?}", s.why);
     let x = 2.0 / (1e150 + 2.0);
-    assert!((s.amounts_mol[0] / x - 1.0).abs() < 1e-9, "{:?} vs {x}", s.amounts_mol);
+    assert!(
+        (s.amounts_mol[0] / x - 1.0).abs() < 1e-9,
+        "{:?} vs {x}",
+        s.amounts_mol
+    );
     assert!((s.amounts_mol[1] / x - 1.0).abs() < 1e-9);
     assert!((s.amounts_mol[2] - 2.0).abs() < 1e-12);
 }
@@ -327,10 +351,15 @@ fn constant_pressure_dissociation() {
     // dissociation of a gas-phase equilibrium).
     for (k, pressure) in [(0.15, 1.0), (0.15, 10.0), (5.0, 0.5)] {
         let p = Problem {
-            species: vec![species("N2O4(g)", Phase::Gas, 0, 1.0), species("NO2(g)", Phase::Gas, 0, 0.0)],
+            species: vec![
+                species("N2O4(g)", Phase::Gas, 0, 1.0),
+                species("NO2(g)", Phase::Gas, 0, 0.0),
+            ],
             reactions: vec![reaction("d", &[(0, -1.0), (1, 2.0)], k)],
             temperature_k: 298.15,
-            vessel: Vessel::ConstantPressure { pressure_bar: pressure },
+            vessel: Vessel::ConstantPressure {
+                pressure_bar: pressure,
+            },
             activity: ActivityModel::Ideal,
         };
         let s = solve(&p);
@@ -357,7 +386,11 @@ fn absent_reactants_leave_a_reaction_out() {
     let s = solve(&p);
     assert!(s.converged, "{:?}", s.why);
     assert!(s.used.is_empty());
-    assert!(s.left_out[0].1.contains("cannot run"), "{}", s.left_out[0].1);
+    assert!(
+        s.left_out[0].1.contains("cannot run"),
+        "{}",
+        s.left_out[0].1
+    );
     assert_eq!(s.amounts_mol, vec![1.0, 0.0, 0.0]);
 }
 
@@ -389,11 +422,21 @@ mod property {
     use proptest::prelude::*;
 
     fn phase() -> impl Strategy<Value = Phase> {
-        prop_oneof![Just(Phase::Gas), Just(Phase::Solute), Just(Phase::Condensed)]
+        prop_oneof![
+            Just(Phase::Gas),
+            Just(Phase::Solute),
+            Just(Phase::Condensed)
+        ]
     }
 
     fn amount() -> impl Strategy<Value = f64> {
-        prop_oneof![Just(0.0), 1e-12..10.0f64, Just(1e-300), Just(-1.0), Just(f64::NAN)]
+        prop_oneof![
+            Just(0.0),
+            1e-12..10.0f64,
+            Just(1e-300),
+            Just(-1.0),
+            Just(f64::NAN)
+        ]
     }
 
     proptest! {
