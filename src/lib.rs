@@ -21,6 +21,7 @@ pub mod model;
 pub mod reaction_k;
 pub mod report;
 pub mod rules;
+pub mod solve;
 pub mod span;
 pub mod suppression;
 pub mod syntax;

@@ -25,7 +25,9 @@ pub(crate) struct Checked<'l> {
 
 /// The tolerance on ln K around `reference` for a relative tolerance.
 pub(crate) fn tolerance(reference: f64, rel: f64) -> f64 {
-    rel * reference.abs().max(crate::thermo::likely_cause::LN_K_SCALE_FLOOR)
+    rel * reference
+        .abs()
+        .max(crate::thermo::likely_cause::LN_K_SCALE_FLOOR)
 }
 
 /// A number for messages: 4 significant figures, scientific when large.
@@ -84,6 +86,9 @@ pub fn run(ws: &Workspace, lib: &Library, config: &Config) -> Vec<Diagnostic> {
         }
     }
     consistency::temperatures(ws, lib, &checked, &mut out);
+    for m in &lib.mixtures {
+        out.extend(crate::solve::mixture_diagnostics(lib, m));
+    }
     pairs::check(ws, lib, &checked, config.tolerance, &mut out);
     cycles::check(ws, lib, &checked, config.tolerance, &mut out);
     out

@@ -18,6 +18,7 @@ pub mod render_human;
 pub mod render_json;
 pub mod render_sarif;
 mod report;
+mod solve;
 
 use clap::{Parser, Subcommand, ValueEnum};
 use std::io::IsTerminal;
@@ -78,6 +79,15 @@ enum Command {
     /// Smallest integer coefficients of an equation, or why there is no unique balance
     Balance {
         equation: String,
+        #[arg(long, value_enum, default_value = "human")]
+        format: DataFormat,
+    },
+    /// Equilibrium composition of each mixture (or one)
+    Solve {
+        file: PathBuf,
+        /// Solve only this mixture
+        #[arg(long)]
+        mixture: Option<String>,
         #[arg(long, value_enum, default_value = "human")]
         format: DataFormat,
     },
@@ -159,6 +169,11 @@ pub fn main() -> i32 {
             stdin_filename,
         } => check::run(&paths, format, deny.is_some(), stdin_filename.as_deref()),
         Command::Balance { equation, format } => balance::run(&equation, format),
+        Command::Solve {
+            file,
+            mixture,
+            format,
+        } => solve::run(&file, mixture.as_deref(), format),
         Command::Report {
             file,
             temperature,
