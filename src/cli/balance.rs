@@ -38,6 +38,14 @@ pub fn run(equation: &str, format: DataFormat) -> i32 {
             }
         }
     }
+    let limit = crate::model::lower::MAX_BALANCE_SPECIES;
+    if formulas.len() > limit {
+        eprintln!(
+            "error: the equation has {} species; stoik balances at most {limit}",
+            formulas.len()
+        );
+        return EXIT_USAGE;
+    }
     let refs: Vec<&Formula> = formulas.iter().collect();
     let arrow = &equation[eq.arrow.span.range()];
     let outcome = balance(&refs, eq.left.len());
