@@ -153,7 +153,7 @@ impl<'w> Lowering<'w> {
         self.reading_note(file, formula_name, &parsed);
         let loc = Loc::new(file, s.span);
         let id = if let Some(alias) = alias {
-            if looks_like_formula(&alias.text) {
+            if looks_like_formula(&alias.text) && parse_formula(&alias.text).is_ok() {
                 self.push(
                     Diagnostic::new(
                         "syntax",
