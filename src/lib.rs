@@ -24,6 +24,7 @@ pub mod rules;
 pub mod solve;
 pub mod span;
 pub mod suppression;
+pub mod synthetic;
 pub mod syntax;
 pub mod thermo;
 pub mod units;
