@@ -107,7 +107,11 @@ fn exit_code_is_1_on_an_error_finding() {
     let dir = folder(&[("bad.stoik", ERRORS)]);
     let o = run_in(dir.path(), &["check", "bad.stoik"]);
     assert_eq!(o.status.code(), Some(1));
-    assert!(stdout(&o).contains("error[element-balance]"), "{}", stdout(&o));
+    assert!(
+        stdout(&o).contains("error[element-balance]"),
+        "{}",
+        stdout(&o)
+    );
 }
 
 #[test]
@@ -191,7 +195,10 @@ fn json_has_the_documented_shape() {
         .find(|d| d["rule"] == "missing-unit")
         .expect("the unit finding");
     assert_eq!(unit["severity"], "warning");
-    assert_eq!((unit["line"].clone(), unit["column"].clone()), (4.into(), 8.into()));
+    assert_eq!(
+        (unit["line"].clone(), unit["column"].clone()),
+        (4.into(), 8.into())
+    );
 }
 
 #[test]
@@ -209,7 +216,9 @@ fn json_columns_count_unicode_scalar_values() {
         .find(|d| d["rule"] == "unknown-element")
         .expect("the element finding")
         .clone();
-    let chars_before = line[..line.find("CL2").expect("CL2 in line")].chars().count();
+    let chars_before = line[..line.find("CL2").expect("CL2 in line")]
+        .chars()
+        .count();
     assert_eq!(chars_before, 48);
     assert_eq!(d["line"], 2);
     assert_eq!(d["column"], chars_before + 1);
@@ -297,10 +306,7 @@ fn stdin_is_read_with_and_without_a_name() {
 
 #[test]
 fn stdin_filename_resolves_use_paths() {
-    let dir = folder(&[(
-        "lib/data.stoik",
-        "# Invented.\nspecies water = H2O(l)\n",
-    )]);
+    let dir = folder(&[("lib/data.stoik", "# Invented.\nspecies water = H2O(l)\n")]);
     let text = "# Invented.\nuse \"data.stoik\"\nreaction: water <=> H^+(aq) + OH^-(aq) ; pK = 14 at 298.15 K\n";
     let named = run_stdin(
         dir.path(),

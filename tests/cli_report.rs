@@ -113,7 +113,11 @@ fn a_kp_in_bar_gives_k_and_kc() {
     close(&row["Kp"], 0.15, 1e-12);
     // Kc = Kp / (c° R T / p°) mol/L.
     close(&row["Kc"], 0.15 * P_STD / (C_STD * R * 298.15), 1e-9);
-    close(&row["dG_kJ_per_mol"], -R * 298.15 * 0.15f64.ln() / 1e3, 1e-9);
+    close(
+        &row["dG_kJ_per_mol"],
+        -R * 298.15 * 0.15f64.ln() / 1e3,
+        1e-9,
+    );
     assert_eq!(row["dH_kJ_per_mol"], Value::Null);
 }
 

@@ -149,7 +149,11 @@ fn calcium_carbonate_decomposes_to_p_co2_equal_to_k() {
     close(eq(mol, "CO2(g)"), n, 1e-9);
     close(eq(mol, "CaO(s)"), n, 1e-9);
     close(eq(mol, "CaCO3(s)"), 1.0 - n, 1e-9);
-    close(mol["reactions"][0]["extent"].as_f64().expect("extent"), n, 1e-9);
+    close(
+        mol["reactions"][0]["extent"].as_f64().expect("extent"),
+        n,
+        1e-9,
+    );
 }
 
 // FIXME(solver): stoik 0.1.0 gets this wrong: from 0.001 mol of CaCO3 it
