@@ -368,3 +368,30 @@ fn the_default_path_is_the_current_folder() {
     assert_eq!(o.status.code(), Some(1));
     assert!(stdout(&o).contains("bad.stoik"));
 }
+
+/// Run under a pseudo-terminal with `script` (util-linux), when it exists.
+fn on_terminal(dir: &Path, no_color: bool) -> Option<String> {
+    let bin = env!("CARGO_BIN_EXE_stoik");
+    let mut c = Command::new("script");
+    c.current_dir(dir)
+        .args(["-qec", &format!("{bin} check bad.stoik"), "/dev/null"])
+        .env_remove("NO_COLOR");
+    if no_color {
+        c.env("NO_COLOR", "1");
+    }
+    let o = c.output().ok()?;
+    Some(String::from_utf8_lossy(&o.stdout).into_owned())
+}
+
+#[test]
+fn a_terminal_gets_colour_unless_no_color_is_set() {
+    let dir = folder(&[("bad.stoik", ERRORS)]);
+    let Some(coloured) = on_terminal(dir.path(), false) else {
+        eprintln!("`script` is not available: skipped");
+        return;
+    };
+    assert!(coloured.contains("\x1b[1;31merror"), "{coloured:?}");
+    let plain = on_terminal(dir.path(), true).expect("script ran once already");
+    assert!(plain.contains("error[element-balance]"), "{plain:?}");
+    assert!(!plain.contains('\x1b'), "{plain:?}");
+}
