@@ -16,7 +16,8 @@ use std::collections::HashSet;
 use nalgebra::{DMatrix, DVector};
 
 use super::activity::{DAVIES_LIMIT_MOL_PER_L, activities};
-use super::newton::{ACTION_TOLERANCE, Action, BALANCE_TOLERANCE, Balance, State, System};
+use super::newton::{
+    Failure,ACTION_TOLERANCE, Action, BALANCE_TOLERANCE, Balance, State, System};
 use super::problem::{ActivityModel, Phase, Problem, validate};
 use super::solution::Solution;
 use super::stoichiometry::{
@@ -204,32 +205,23 @@ impl<'a> Solver<'a> {
         let present: Vec<bool> = (0..s).map(|i| self.reacting[i] && self.reach[i]).collect();
         let mut present = present;
 
-        let mut visited: HashSet<Vec<bool>> = HashSet::new();
+        let mut converged_sets: HashSet<Vec<bool>> = HashSet::new();
+        let mut retries = 0;
         let mut iterations = 0;
         let condensed_count = (0..s).filter(|&i| self.is_condensed(i)).count();
         let mut outcome: Result<Vec<Action>, String> =
             Err("the active-set search did not run".to_string());
-        for _ in 0..(4 * condensed_count + 4) {
-            if !visited.insert(present.clone()) {
-                outcome = Err(
-                    "the set of present condensed species did not settle (it cycled)".to_string(),
-                );
-                break;
-            }
+        for _ in 0..(8 * condensed_count + 4) {
             for (i, &here) in present.iter().enumerate() {
                 if self.is_condensed(i) && !here {
                     state.set_amount(i, 0.0);
                 }
             }
             let actions = self.actions(&present);
-            // A mass-action law among condensed species alone cannot hold:
-            // the reaction runs until one of the species it consumes is gone.
-            if let Some(a) = actions.iter().find(|a| {
-                a.coefficients
-                    .iter()
-                    .enumerate()
-                    .all(|(i, &c)| c == 0.0 || self.is_condensed(i))
-            }) {
+            // A mass-action law among condensed species alone cannot hold
+            // (too many condensed species for the phase rule): the reaction
+            // runs until one of the species it consumes is gone.
+            if let Some(a) = self.condensed_only(&actions) {
                 if a.ln_k.abs() <= 1e-12 {
                     outcome = Err("a reaction among condensed species alone has K = 1, so their amounts are not fixed by equilibrium".to_string());
                     break;
@@ -255,19 +247,53 @@ impl<'a> Solver<'a> {
             }
             let unknowns: Vec<usize> = (0..s).filter(|&i| present[i]).collect();
             let balances = self.balances(&unknowns, &state, false);
-            let system = System {
+            let mut system = System {
                 problem,
                 unknowns,
                 actions,
                 balances,
                 amount_scale: self.amount_scale(),
+                homotopy: 1.0,
             };
-            match system.solve(&mut state) {
+            let before = state.clone();
+            match system.solve_robust(&mut state) {
                 Ok(k) => iterations += k,
-                Err(why) => {
-                    outcome = Err(why);
-                    break;
+                Err(Failure::Blocked(i)) => {
+                    present[i] = false;
+                    continue;
                 }
+                Err(Failure::Stopped(why)) => {
+                    // Too many condensed species may leave the equations with
+                    // no root at non-negative amounts that Newton can reach;
+                    // drop the one the search depleted most and try again
+                    // from where this attempt began (the saturation test
+                    // below adds it back if it belongs).
+                    let depleted = (0..s)
+                        .filter(|&i| self.is_condensed(i) && present[i])
+                        .min_by(|&i, &j| {
+                            let ri = state.n[i] / before.n[i].max(f64::MIN_POSITIVE);
+                            let rj = state.n[j] / before.n[j].max(f64::MIN_POSITIVE);
+                            ri.total_cmp(&rj)
+                        });
+                    match depleted {
+                        Some(i) if retries < 2 * condensed_count => {
+                            retries += 1;
+                            present[i] = false;
+                            state = before;
+                            continue;
+                        }
+                        _ => {
+                            outcome = Err(why);
+                            break;
+                        }
+                    }
+                }
+            }
+            if !converged_sets.insert(present.clone()) {
+                outcome = Err(
+                    "the set of present condensed species did not settle (it cycled)".to_string(),
+                );
+                break;
             }
             // A present condensed species with a negative amount is used up.
             let total: f64 = self.initial.iter().sum();
@@ -313,6 +339,7 @@ impl<'a> Solver<'a> {
                     balances: self.balances(&unknowns, &state, true),
                     unknowns,
                     amount_scale: self.amount_scale(),
+                    homotopy: 1.0,
                 };
                 let mut polished = state.clone();
                 let Ok(k) = system.solve(&mut polished) else {
@@ -366,6 +393,35 @@ impl<'a> Solver<'a> {
                 Action { coefficients, ln_k }
             })
             .collect()
+    }
+
+    /// A combination of the mass-action laws in which no fluid species is
+    /// left, if there is one: a reaction among present condensed species
+    /// alone.
+    fn condensed_only(&self, actions: &[Action]) -> Option<Action> {
+        let s = self.problem.species.len();
+        let fluid: Vec<usize> = (0..s).filter(|&i| !self.is_condensed(i)).collect();
+        let m = DMatrix::from_fn(fluid.len(), actions.len(), |f, r| {
+            actions[r].coefficients[fluid[f]]
+        });
+        let beta = null_space(&m).into_iter().next()?;
+        let mut coefficients = vec![0.0; s];
+        let mut ln_k = 0.0;
+        for (r, a) in actions.iter().enumerate() {
+            ln_k += beta[r] * a.ln_k;
+            for (i, c) in coefficients.iter_mut().enumerate() {
+                if self.is_condensed(i) {
+                    *c += beta[r] * a.coefficients[i];
+                }
+            }
+        }
+        let largest = coefficients.iter().fold(0.0f64, |m, c| m.max(c.abs()));
+        for c in coefficients.iter_mut() {
+            if c.abs() <= 1e-9 * largest {
+                *c = 0.0;
+            }
+        }
+        Some(Action { coefficients, ln_k })
     }
 
     /// The conservation laws over the unknowns: independent restrictions of

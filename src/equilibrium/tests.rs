@@ -486,4 +486,63 @@ mod property {
             }
         }
     }
+
+    /// Components and products formed from them, every product from two or
+    /// three components, some products solid, constants over a wide range.
+    fn formed_system() -> impl Strategy<Value = Problem> {
+        (
+            2usize..7,
+            proptest::collection::vec(
+                (proptest::collection::vec(0usize..7, 2..4), -150.0..150.0f64, 0u8..5, 0.0..2.0f64),
+                1..7,
+            ),
+            proptest::collection::vec(1e-6..5.0f64, 7),
+            any::<bool>(),
+        )
+            .prop_map(|(components, products, amounts, pressure)| {
+                let mut species: Vec<Species> = (0..components)
+                    .map(|k| Species {
+                        name: format!("C{k}"),
+                        phase: Phase::Gas,
+                        charge: 0,
+                        initial_mol: amounts[k],
+                    })
+                    .collect();
+                let mut reactions = Vec::new();
+                for (p, (parts, ln_k, kind, n0)) in products.iter().enumerate() {
+                    let index = species.len();
+                    species.push(Species {
+                        name: format!("P{p}"),
+                        // Solids only at constant volume: at constant pressure a
+                        // gas phase that condenses completely is out of scope.
+                        phase: if *kind == 0 && !pressure { Phase::Condensed } else { Phase::Gas },
+                        charge: 0,
+                        initial_mol: if *kind <= 1 { *n0 } else { 0.0 },
+                    });
+                    let mut stoich = vec![(index, 1.0)];
+                    stoich.extend(parts.iter().map(|&c| (c % components, -1.0)));
+                    reactions.push(Reaction { label: format!("r{p}"), stoich, ln_k: *ln_k });
+                }
+                Problem {
+                    species,
+                    reactions,
+                    temperature_k: 700.0,
+                    vessel: if pressure {
+                        Vessel::ConstantPressure { pressure_bar: 3.0 }
+                    } else {
+                        Vessel::ConstantVolume { volume_l: 4.0 }
+                    },
+                    activity: ActivityModel::Ideal,
+                }
+            })
+    }
+
+    proptest! {
+        #![proptest_config(ProptestConfig::with_cases(400))]
+        #[test]
+        fn well_posed_problems_converge(problem in formed_system()) {
+            let s = solve(&problem);
+            prop_assert!(s.converged, "{:?}", s.why);
+        }
+    }
 }
