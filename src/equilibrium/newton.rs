@@ -187,9 +187,7 @@ impl System<'_> {
             for (i, &c) in a.coefficients.iter().enumerate() {
                 match species[i].phase {
                     Phase::Gas => gas_sum += c,
-                    Phase::Solute => {
-                        ion_sum += c * f64::from(species[i].charge * species[i].charge)
-                    }
+                    Phase::Solute => ion_sum += c * f64::from(species[i].charge).powi(2),
                     Phase::Condensed => {}
                 }
             }
@@ -204,7 +202,7 @@ impl System<'_> {
                     }
                     Phase::Solute => {
                         d += a.coefficients[i];
-                        let z2 = f64::from(species[i].charge * species[i].charge);
+                        let z2 = f64::from(species[i].charge).powi(2);
                         d += act.davies_slope * ion_sum * 0.5 * z2 * state.n[i] / volume;
                     }
                     Phase::Condensed => {}
@@ -324,7 +322,9 @@ impl System<'_> {
             let rhs = -&f;
             let linear = Linear::new(jac);
             let Some(step) = linear.solve(&rhs) else {
-                return Err(Failure::Stopped("the Newton system is singular".to_string()));
+                return Err(Failure::Stopped(
+                    "the Newton system is singular".to_string(),
+                ));
             };
             let mut largest_log = 0.0f64;
             for (j, &i) in self.unknowns.iter().enumerate() {

@@ -16,8 +16,7 @@ use std::collections::HashSet;
 use nalgebra::{DMatrix, DVector};
 
 use super::activity::{DAVIES_LIMIT_MOL_PER_L, activities};
-use super::newton::{
-    Failure,ACTION_TOLERANCE, Action, BALANCE_TOLERANCE, Balance, State, System};
+use super::newton::{ACTION_TOLERANCE, Action, BALANCE_TOLERANCE, Balance, Failure, State, System};
 use super::problem::{ActivityModel, Phase, Problem, validate};
 use super::solution::Solution;
 use super::stoichiometry::{
@@ -259,7 +258,10 @@ impl<'a> Solver<'a> {
             match system.solve_robust(&mut state) {
                 Ok(k) => iterations += k,
                 Err(Failure::Blocked(i)) => {
+                    // The iterate that hit the bound need not be a good
+                    // start for the new set; begin again from this attempt's.
                     present[i] = false;
+                    state = before;
                     continue;
                 }
                 Err(Failure::Stopped(why)) => {
@@ -535,9 +537,17 @@ impl<'a> Solver<'a> {
             })
             .collect();
         let delta = DVector::from_iterator(s, (0..s).map(|i| amounts[i] - self.initial[i]));
-        let kept_t = DMatrix::from_fn(s, self.kept.len(), |i, r| self.nu[(self.kept[r], i)]);
+        // Extents from the normal equations ν νᵀ ξ = ν Δn (the kept rows are
+        // independent, so ν νᵀ is invertible).
+        let kept_nu = DMatrix::from_fn(self.kept.len(), s, |r, i| self.nu[(self.kept[r], i)]);
+        let normal = &kept_nu * kept_nu.transpose();
         let mut extents = vec![0.0; problem.reactions.len()];
-        if let Some(x) = least_squares(&kept_t, &delta) {
+        let solved = if self.kept.is_empty() {
+            None
+        } else {
+            normal.lu().solve(&(&kept_nu * &delta))
+        };
+        if let Some(x) = solved {
             for (r, &k) in self.kept.iter().enumerate() {
                 if used.contains(&k) {
                     extents[k] = x[r];
