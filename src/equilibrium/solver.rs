@@ -142,6 +142,47 @@ impl<'a> Solver<'a> {
         }
     }
 
+    /// Improves the start for fluid species absent at the beginning: one
+    /// pass over the kept reactions sets each such species that a reaction
+    /// makes alone from species already valued to its mass-action value,
+    /// held between 1e-30 and 1 times the typical amount `guess` × 1e3 (so a
+    /// large K cannot start it above what the mixture holds).
+    fn refine_start(&self, state: &mut State, guess: f64) {
+        let problem = self.problem;
+        let s = problem.species.len();
+        let typical = (guess * 1e3).ln();
+        let mut valued: Vec<bool> = (0..s)
+            .map(|i| self.initial[i] > 0.0 || self.is_condensed(i))
+            .collect();
+        for &r in &self.kept {
+            let fresh: Vec<usize> = (0..s)
+                .filter(|&i| self.nu[(r, i)] != 0.0 && !valued[i])
+                .collect();
+            let [p] = fresh.as_slice() else { continue };
+            let p = *p;
+            if self.is_condensed(p) || !self.reach[p] {
+                continue;
+            }
+            let act = activities(problem, &state.n, &state.ln_n);
+            // ν_p ln a_p = ln K - Σ_{j≠p} ν_j ln a_j, and ln n_p = ln a_p - (ln a_p - ln n_p).
+            let mut rest = problem.reactions[r].ln_k;
+            for j in 0..s {
+                let c = self.nu[(r, j)];
+                if j != p && c != 0.0 && !self.is_condensed(j) {
+                    rest -= c * act.ln_a[j];
+                }
+            }
+            let ln_a = rest / self.nu[(r, p)];
+            let ln_n = ln_a - (act.ln_a[p] - state.ln_n[p]);
+            if ln_n.is_finite() {
+                let y = ln_n.clamp(typical - 69.0, typical);
+                state.ln_n[p] = y;
+                state.n[p] = y.exp();
+                valued[p] = true;
+            }
+        }
+    }
+
     /// The total initial amount of the species that react, mol.
     fn amount_scale(&self) -> f64 {
         let total: f64 = (0..self.initial.len())
@@ -196,6 +237,7 @@ impl<'a> Solver<'a> {
                 state.set_amount(i, 0.0);
             }
         }
+        self.refine_start(&mut state, guess);
         // Every condensed species that can form starts present (at its
         // initial amount, possibly 0); the search removes the ones that come
         // out negative. Starting a product solid absent would force its
@@ -371,6 +413,17 @@ impl<'a> Solver<'a> {
         let absent: Vec<usize> = (0..s)
             .filter(|&i| self.reacting[i] && !present[i])
             .collect();
+        if absent.is_empty() {
+            // Every kept reaction holds as it is.
+            return self
+                .kept
+                .iter()
+                .map(|&k| Action {
+                    coefficients: self.nu.row(k).iter().copied().collect(),
+                    ln_k: self.problem.reactions[k].ln_k,
+                })
+                .collect();
+        }
         let m = DMatrix::from_fn(absent.len(), self.kept.len(), |z, r| {
             self.nu[(self.kept[r], absent[z])]
         });
