@@ -17,7 +17,7 @@ use nalgebra::{DMatrix, DVector};
 
 use super::activity::{DAVIES_LIMIT_MOL_PER_L, activities};
 use super::newton::{ACTION_TOLERANCE, Action, BALANCE_TOLERANCE, Balance, Failure, State, System};
-use super::problem::{ActivityModel, Phase, Problem, validate};
+use super::problem::{ActivityModel, Phase, Problem, Vessel, validate};
 use super::solution::Solution;
 use super::stoichiometry::{
     independent_reactions, independent_rows, least_squares, null_space, null_space_ordered,
@@ -610,7 +610,12 @@ impl<'a> Solver<'a> {
         let vanished: Vec<usize> = (0..s)
             .filter(|&i| self.is_condensed(i) && self.initial[i] > 0.0 && amounts[i] == 0.0)
             .collect();
-        let mut why = outcome.as_ref().err().cloned();
+        let mut why = outcome.as_ref().err().map(|why| match problem.vessel {
+            Vessel::ConstantPressure { .. } if (0..s).any(|i| self.is_condensed(i)) => format!(
+                "{why}; at constant pressure this can mean that the gas phase would condense or vanish completely, which this solver does not model"
+            ),
+            _ => why.clone(),
+        });
         if why.is_none() {
             why = self.verify(&amounts, &present, &ln_q, &used);
         }
