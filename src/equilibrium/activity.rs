@@ -49,7 +49,7 @@ fn davies_shape_slope(ionic_strength: f64) -> f64 {
 /// The Davies activity coefficient γ of an ion of charge `z` at ionic
 /// strength `ionic_strength` (mol/L) and `temperature_k`.
 pub fn davies_gamma(z: i32, ionic_strength: f64, temperature_k: f64) -> f64 {
-    let zz = f64::from(z) * f64::from(z);
+    let zz = f64::from(z).powi(2);
     10f64.powf(-davies_a(temperature_k) * zz * davies_shape(ionic_strength))
 }
 
@@ -89,7 +89,7 @@ pub(crate) fn activities(problem: &Problem, n: &[f64], ln_n: &[f64]) -> Activiti
                     .iter()
                     .zip(n)
                     .filter(|(s, _)| s.phase == Phase::Solute)
-                    .map(|(s, &ni)| 0.5 * f64::from(s.charge * s.charge) * ni / volume_l)
+                    .map(|(s, &ni)| 0.5 * f64::from(s.charge).powi(2) * ni / volume_l)
                     .sum();
                 let a = davies_a(t);
                 ln_gamma_per_z2 = -std::f64::consts::LN_10 * a * davies_shape(i);
@@ -101,7 +101,7 @@ pub(crate) fn activities(problem: &Problem, n: &[f64], ln_n: &[f64]) -> Activiti
                     .iter()
                     .zip(n)
                     .filter(|(s, _)| s.phase == Phase::Solute)
-                    .map(|(s, &ni)| 0.5 * f64::from(s.charge * s.charge) * ni / volume_l)
+                    .map(|(s, &ni)| 0.5 * f64::from(s.charge).powi(2) * ni / volume_l)
                     .sum();
                 ionic_strength = Some(i);
             }
@@ -109,7 +109,7 @@ pub(crate) fn activities(problem: &Problem, n: &[f64], ln_n: &[f64]) -> Activiti
                 match s.phase {
                     Phase::Gas => ln_a[k] = ln_n[k] + ln_gas,
                     Phase::Solute => {
-                        let lg = ln_gamma_per_z2 * f64::from(s.charge * s.charge);
+                        let lg = ln_gamma_per_z2 * f64::from(s.charge).powi(2);
                         gamma[k] = lg.exp();
                         ln_a[k] = ln_n[k] + lg + ln_sol;
                     }

@@ -53,6 +53,18 @@ pub(crate) struct System<'a> {
     pub balances: Vec<Balance>,
     /// A typical amount of the system, mol, for weighing condensed amounts.
     pub amount_scale: f64,
+    /// The fraction of each ln K in force (1 except during continuation).
+    pub homotopy: f64,
+}
+
+/// Why a Newton solve ended without a root.
+#[derive(Debug, Clone, PartialEq)]
+pub(crate) enum Failure {
+    /// This present condensed species is at 0 and the step would make it
+    /// negative: it is used up, and the active set must change.
+    Blocked(usize),
+    /// The iteration failed, for the reason given.
+    Stopped(String),
 }
 
 /// A factorised Newton matrix: LU, or SVD when LU finds it singular.
@@ -131,13 +143,14 @@ impl System<'_> {
         let m = self.actions.len() + self.balances.len();
         let mut f = DVector::zeros(m);
         for (r, a) in self.actions.iter().enumerate() {
-            let mut s = -a.ln_k;
+            let ln_k = a.ln_k * self.homotopy;
+            let mut s = -ln_k;
             for (i, &c) in a.coefficients.iter().enumerate() {
                 if c != 0.0 && self.is_fluid(i) {
                     s += c * act.ln_a[i];
                 }
             }
-            f[r] = s / a.ln_k.abs().max(1.0);
+            f[r] = s / ln_k.abs().max(1.0);
         }
         for (k, b) in self.balances.iter().enumerate() {
             let mut s = -b.total;
@@ -168,15 +181,13 @@ impl System<'_> {
         };
         let constant_pressure = matches!(self.problem.vessel, Vessel::ConstantPressure { .. });
         for (r, a) in self.actions.iter().enumerate() {
-            let norm = a.ln_k.abs().max(1.0);
+            let norm = (a.ln_k * self.homotopy).abs().max(1.0);
             let mut gas_sum = 0.0;
             let mut ion_sum = 0.0;
             for (i, &c) in a.coefficients.iter().enumerate() {
                 match species[i].phase {
                     Phase::Gas => gas_sum += c,
-                    Phase::Solute => {
-                        ion_sum += c * f64::from(species[i].charge * species[i].charge)
-                    }
+                    Phase::Solute => ion_sum += c * f64::from(species[i].charge).powi(2),
                     Phase::Condensed => {}
                 }
             }
@@ -191,7 +202,7 @@ impl System<'_> {
                     }
                     Phase::Solute => {
                         d += a.coefficients[i];
-                        let z2 = f64::from(species[i].charge * species[i].charge);
+                        let z2 = f64::from(species[i].charge).powi(2);
                         d += act.davies_slope * ion_sum * 0.5 * z2 * state.n[i] / volume;
                     }
                     Phase::Condensed => {}
@@ -230,21 +241,69 @@ impl System<'_> {
             if self.is_fluid(i) {
                 next.set_log(i, state.ln_n[i] + t * step[j]);
             } else {
-                next.set_amount(i, state.n[i] + t * step[j]);
+                next.set_amount(i, (state.n[i] + t * step[j]).max(0.0));
             }
         }
         next
     }
 
+    /// Runs Newton's method from `state`, and when that fails, follows the
+    /// solution from ln K scaled to 0 (every K = 1, an easy problem) up to the
+    /// full ln K in adaptive steps (parameter continuation; Allgower & Georg,
+    /// "Introduction to Numerical Continuation Methods", SIAM 2003, ch. 1).
+    pub(crate) fn solve_robust(&mut self, state: &mut State) -> Result<usize, Failure> {
+        let start = state.clone();
+        self.homotopy = 1.0;
+        let why = match self.solve(state) {
+            Ok(k) => return Ok(k),
+            Err(Failure::Blocked(i)) => return Err(Failure::Blocked(i)),
+            Err(Failure::Stopped(why)) => why,
+        };
+        *state = start;
+        let mut iterations = 0;
+        let mut lambda = 0.0;
+        let mut step: f64 = 0.25;
+        let mut attempts = 0;
+        self.homotopy = 0.0;
+        let result = loop {
+            attempts += 1;
+            if attempts > 200 {
+                break Err(Failure::Stopped(why));
+            }
+            let mut trial = state.clone();
+            match self.solve(&mut trial) {
+                Ok(k) => {
+                    iterations += k;
+                    *state = trial;
+                    if self.homotopy >= 1.0 {
+                        break Ok(iterations);
+                    }
+                    lambda = self.homotopy;
+                    step = (step * 2.0).min(0.5);
+                }
+                Err(Failure::Blocked(i)) => break Err(Failure::Blocked(i)),
+                Err(Failure::Stopped(_)) => {
+                    step *= 0.5;
+                    if step < 1e-4 {
+                        break Err(Failure::Stopped(why));
+                    }
+                }
+            }
+            self.homotopy = (lambda + step).min(1.0);
+        };
+        self.homotopy = 1.0;
+        result
+    }
+
     /// Runs Newton's method from `state`; returns the number of iterations
     /// or why it failed. `state` holds the last iterate either way.
-    pub(crate) fn solve(&self, state: &mut State) -> Result<usize, String> {
+    pub(crate) fn solve(&self, state: &mut State) -> Result<usize, Failure> {
         if self.actions.len() + self.balances.len() != self.unknowns.len() {
-            return Err(format!(
+            return Err(Failure::Stopped(format!(
                 "internal: {} equations for {} unknowns",
                 self.actions.len() + self.balances.len(),
                 self.unknowns.len()
-            ));
+            )));
         }
         if self.unknowns.is_empty() {
             return Ok(0);
@@ -252,7 +311,12 @@ impl System<'_> {
         let (mut f, mut act) = self.residual(state);
         let mut phi = 0.5 * f.norm_squared();
         if !phi.is_finite() {
-            return Err("the starting point gives a residual that is not finite".to_string());
+            return Err(Failure::Stopped(
+                "the starting point gives a residual that is not finite".to_string(),
+            ));
+        }
+        if self.measure(state).within(1e-14, 1e-15) {
+            return Ok(0);
         }
         let mut good_iterations = 0;
         let mut stalls = 0;
@@ -261,7 +325,9 @@ impl System<'_> {
             let rhs = -&f;
             let linear = Linear::new(jac);
             let Some(step) = linear.solve(&rhs) else {
-                return Err("the Newton system is singular".to_string());
+                return Err(Failure::Stopped(
+                    "the Newton system is singular".to_string(),
+                ));
             };
             let mut largest_log = 0.0f64;
             for (j, &i) in self.unknowns.iter().enumerate() {
@@ -275,6 +341,17 @@ impl System<'_> {
             } else {
                 1.0
             };
+            // A present condensed amount may fall to 0 but not below: stop
+            // the step there, and report a species already at 0 that the
+            // step would take negative, so the caller can remove it.
+            for (j, &i) in self.unknowns.iter().enumerate() {
+                if !self.is_fluid(i) && step[j] < 0.0 {
+                    if state.n[i] <= 0.0 {
+                        return Err(Failure::Blocked(i));
+                    }
+                    t = t.min(state.n[i] / -step[j]);
+                }
+            }
             let mut accepted = None;
             let mut best: Option<(f64, State, DVector<f64>, Activities, f64)> = None;
             while t >= 1e-12 {
@@ -337,16 +414,16 @@ impl System<'_> {
                 }
             }
             if stalls >= 8 {
-                return Err(format!(
+                return Err(Failure::Stopped(format!(
                     "Newton's method stalled after {iteration} iterations (largest mass-action error {:.3e}, conservation error {:.3e})",
                     r.action, r.balance
-                ));
+                )));
             }
         }
         let r = self.measure(state);
-        Err(format!(
+        Err(Failure::Stopped(format!(
             "Newton's method did not converge in {MAX_ITERATIONS} iterations (largest mass-action error {:.3e}, conservation error {:.3e})",
             r.action, r.balance
-        ))
+        )))
     }
 }

@@ -16,8 +16,8 @@ use std::collections::HashSet;
 use nalgebra::{DMatrix, DVector};
 
 use super::activity::{DAVIES_LIMIT_MOL_PER_L, activities};
-use super::newton::{ACTION_TOLERANCE, Action, BALANCE_TOLERANCE, Balance, State, System};
-use super::problem::{ActivityModel, Phase, Problem, validate};
+use super::newton::{ACTION_TOLERANCE, Action, BALANCE_TOLERANCE, Balance, Failure, State, System};
+use super::problem::{ActivityModel, Phase, Problem, Vessel, validate};
 use super::solution::Solution;
 use super::stoichiometry::{
     independent_reactions, independent_rows, least_squares, null_space, null_space_ordered,
@@ -142,6 +142,47 @@ impl<'a> Solver<'a> {
         }
     }
 
+    /// Improves the start for fluid species absent at the beginning: one
+    /// pass over the kept reactions sets each such species that a reaction
+    /// makes alone from species already valued to its mass-action value,
+    /// held between 1e-30 and 1 times the typical amount `guess` × 1e3 (so a
+    /// large K cannot start it above what the mixture holds).
+    fn refine_start(&self, state: &mut State, guess: f64) {
+        let problem = self.problem;
+        let s = problem.species.len();
+        let typical = (guess * 1e3).ln();
+        let mut valued: Vec<bool> = (0..s)
+            .map(|i| self.initial[i] > 0.0 || self.is_condensed(i))
+            .collect();
+        for &r in &self.kept {
+            let fresh: Vec<usize> = (0..s)
+                .filter(|&i| self.nu[(r, i)] != 0.0 && !valued[i])
+                .collect();
+            let [p] = fresh.as_slice() else { continue };
+            let p = *p;
+            if self.is_condensed(p) || !self.reach[p] {
+                continue;
+            }
+            let act = activities(problem, &state.n, &state.ln_n);
+            // ν_p ln a_p = ln K - Σ_{j≠p} ν_j ln a_j, and ln n_p = ln a_p - (ln a_p - ln n_p).
+            let mut rest = problem.reactions[r].ln_k;
+            for j in 0..s {
+                let c = self.nu[(r, j)];
+                if j != p && c != 0.0 && !self.is_condensed(j) {
+                    rest -= c * act.ln_a[j];
+                }
+            }
+            let ln_a = rest / self.nu[(r, p)];
+            let ln_n = ln_a - (act.ln_a[p] - state.ln_n[p]);
+            if ln_n.is_finite() {
+                let y = ln_n.clamp(typical - 69.0, typical);
+                state.ln_n[p] = y;
+                state.n[p] = y.exp();
+                valued[p] = true;
+            }
+        }
+    }
+
     /// The total initial amount of the species that react, mol.
     fn amount_scale(&self) -> f64 {
         let total: f64 = (0..self.initial.len())
@@ -196,6 +237,7 @@ impl<'a> Solver<'a> {
                 state.set_amount(i, 0.0);
             }
         }
+        self.refine_start(&mut state, guess);
         // Every condensed species that can form starts present (at its
         // initial amount, possibly 0); the search removes the ones that come
         // out negative. Starting a product solid absent would force its
@@ -204,32 +246,23 @@ impl<'a> Solver<'a> {
         let present: Vec<bool> = (0..s).map(|i| self.reacting[i] && self.reach[i]).collect();
         let mut present = present;
 
-        let mut visited: HashSet<Vec<bool>> = HashSet::new();
+        let mut converged_sets: HashSet<Vec<bool>> = HashSet::new();
+        let mut retries = 0;
         let mut iterations = 0;
         let condensed_count = (0..s).filter(|&i| self.is_condensed(i)).count();
         let mut outcome: Result<Vec<Action>, String> =
             Err("the active-set search did not run".to_string());
-        for _ in 0..(4 * condensed_count + 4) {
-            if !visited.insert(present.clone()) {
-                outcome = Err(
-                    "the set of present condensed species did not settle (it cycled)".to_string(),
-                );
-                break;
-            }
+        for _ in 0..(8 * condensed_count + 4) {
             for (i, &here) in present.iter().enumerate() {
                 if self.is_condensed(i) && !here {
                     state.set_amount(i, 0.0);
                 }
             }
             let actions = self.actions(&present);
-            // A mass-action law among condensed species alone cannot hold:
-            // the reaction runs until one of the species it consumes is gone.
-            if let Some(a) = actions.iter().find(|a| {
-                a.coefficients
-                    .iter()
-                    .enumerate()
-                    .all(|(i, &c)| c == 0.0 || self.is_condensed(i))
-            }) {
+            // A mass-action law among condensed species alone cannot hold
+            // (too many condensed species for the phase rule): the reaction
+            // runs until one of the species it consumes is gone.
+            if let Some(a) = self.condensed_only(&actions) {
                 if a.ln_k.abs() <= 1e-12 {
                     outcome = Err("a reaction among condensed species alone has K = 1, so their amounts are not fixed by equilibrium".to_string());
                     break;
@@ -255,19 +288,56 @@ impl<'a> Solver<'a> {
             }
             let unknowns: Vec<usize> = (0..s).filter(|&i| present[i]).collect();
             let balances = self.balances(&unknowns, &state, false);
-            let system = System {
+            let mut system = System {
                 problem,
                 unknowns,
                 actions,
                 balances,
                 amount_scale: self.amount_scale(),
+                homotopy: 1.0,
             };
-            match system.solve(&mut state) {
+            let before = state.clone();
+            match system.solve_robust(&mut state) {
                 Ok(k) => iterations += k,
-                Err(why) => {
-                    outcome = Err(why);
-                    break;
+                Err(Failure::Blocked(i)) => {
+                    // The iterate that hit the bound need not be a good
+                    // start for the new set; begin again from this attempt's.
+                    present[i] = false;
+                    state = before;
+                    continue;
                 }
+                Err(Failure::Stopped(why)) => {
+                    // Too many condensed species may leave the equations with
+                    // no root at non-negative amounts that Newton can reach;
+                    // drop the one the search depleted most and try again
+                    // from where this attempt began (the saturation test
+                    // below adds it back if it belongs).
+                    let depleted = (0..s)
+                        .filter(|&i| self.is_condensed(i) && present[i])
+                        .min_by(|&i, &j| {
+                            let ri = state.n[i] / before.n[i].max(f64::MIN_POSITIVE);
+                            let rj = state.n[j] / before.n[j].max(f64::MIN_POSITIVE);
+                            ri.total_cmp(&rj)
+                        });
+                    match depleted {
+                        Some(i) if retries < 2 * condensed_count => {
+                            retries += 1;
+                            present[i] = false;
+                            state = before;
+                            continue;
+                        }
+                        _ => {
+                            outcome = Err(why);
+                            break;
+                        }
+                    }
+                }
+            }
+            if !converged_sets.insert(present.clone()) {
+                outcome = Err(
+                    "the set of present condensed species did not settle (it cycled)".to_string(),
+                );
+                break;
             }
             // A present condensed species with a negative amount is used up.
             let total: f64 = self.initial.iter().sum();
@@ -313,6 +383,7 @@ impl<'a> Solver<'a> {
                     balances: self.balances(&unknowns, &state, true),
                     unknowns,
                     amount_scale: self.amount_scale(),
+                    homotopy: 1.0,
                 };
                 let mut polished = state.clone();
                 let Ok(k) = system.solve(&mut polished) else {
@@ -342,6 +413,17 @@ impl<'a> Solver<'a> {
         let absent: Vec<usize> = (0..s)
             .filter(|&i| self.reacting[i] && !present[i])
             .collect();
+        if absent.is_empty() {
+            // Every kept reaction holds as it is.
+            return self
+                .kept
+                .iter()
+                .map(|&k| Action {
+                    coefficients: self.nu.row(k).iter().copied().collect(),
+                    ln_k: self.problem.reactions[k].ln_k,
+                })
+                .collect();
+        }
         let m = DMatrix::from_fn(absent.len(), self.kept.len(), |z, r| {
             self.nu[(self.kept[r], absent[z])]
         });
@@ -366,6 +448,35 @@ impl<'a> Solver<'a> {
                 Action { coefficients, ln_k }
             })
             .collect()
+    }
+
+    /// A combination of the mass-action laws in which no fluid species is
+    /// left, if there is one: a reaction among present condensed species
+    /// alone.
+    fn condensed_only(&self, actions: &[Action]) -> Option<Action> {
+        let s = self.problem.species.len();
+        let fluid: Vec<usize> = (0..s).filter(|&i| !self.is_condensed(i)).collect();
+        let m = DMatrix::from_fn(fluid.len(), actions.len(), |f, r| {
+            actions[r].coefficients[fluid[f]]
+        });
+        let beta = null_space(&m).into_iter().next()?;
+        let mut coefficients = vec![0.0; s];
+        let mut ln_k = 0.0;
+        for (r, a) in actions.iter().enumerate() {
+            ln_k += beta[r] * a.ln_k;
+            for (i, c) in coefficients.iter_mut().enumerate() {
+                if self.is_condensed(i) {
+                    *c += beta[r] * a.coefficients[i];
+                }
+            }
+        }
+        let largest = coefficients.iter().fold(0.0f64, |m, c| m.max(c.abs()));
+        for c in coefficients.iter_mut() {
+            if c.abs() <= 1e-9 * largest {
+                *c = 0.0;
+            }
+        }
+        Some(Action { coefficients, ln_k })
     }
 
     /// The conservation laws over the unknowns: independent restrictions of
@@ -479,9 +590,17 @@ impl<'a> Solver<'a> {
             })
             .collect();
         let delta = DVector::from_iterator(s, (0..s).map(|i| amounts[i] - self.initial[i]));
-        let kept_t = DMatrix::from_fn(s, self.kept.len(), |i, r| self.nu[(self.kept[r], i)]);
+        // Extents from the normal equations ν νᵀ ξ = ν Δn (the kept rows are
+        // independent, so ν νᵀ is invertible).
+        let kept_nu = DMatrix::from_fn(self.kept.len(), s, |r, i| self.nu[(self.kept[r], i)]);
+        let normal = &kept_nu * kept_nu.transpose();
         let mut extents = vec![0.0; problem.reactions.len()];
-        if let Some(x) = least_squares(&kept_t, &delta) {
+        let solved = if self.kept.is_empty() {
+            None
+        } else {
+            normal.lu().solve(&(&kept_nu * &delta))
+        };
+        if let Some(x) = solved {
             for (r, &k) in self.kept.iter().enumerate() {
                 if used.contains(&k) {
                     extents[k] = x[r];
@@ -491,7 +610,12 @@ impl<'a> Solver<'a> {
         let vanished: Vec<usize> = (0..s)
             .filter(|&i| self.is_condensed(i) && self.initial[i] > 0.0 && amounts[i] == 0.0)
             .collect();
-        let mut why = outcome.as_ref().err().cloned();
+        let mut why = outcome.as_ref().err().map(|why| match problem.vessel {
+            Vessel::ConstantPressure { .. } if (0..s).any(|i| self.is_condensed(i)) => format!(
+                "{why}; at constant pressure this can mean that the gas phase would condense or vanish completely, which this solver does not model"
+            ),
+            _ => why.clone(),
+        });
         if why.is_none() {
             why = self.verify(&amounts, &present, &ln_q, &used);
         }

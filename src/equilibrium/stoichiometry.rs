@@ -185,7 +185,7 @@ pub(crate) fn independent_rows(rows: &[DVector<f64>]) -> Vec<usize> {
 /// Math. Oper. Res. 2 (1977) 103), which cannot cycle on these degenerate
 /// problems.
 pub(crate) fn reachable(nu: &DMatrix<f64>, reactions: &[usize], initial: &[f64]) -> Vec<bool> {
-    let mut available: Vec<bool> = initial.iter().map(|&x| x > 0.0).collect();
+    let mut available = propagate(nu, reactions, initial);
     let absent: Vec<usize> = (0..nu.ncols())
         .filter(|&j| !available[j] && reactions.iter().any(|&r| nu[(r, j)] != 0.0))
         .collect();
@@ -221,6 +221,32 @@ pub(crate) fn reachable(nu: &DMatrix<f64>, reactions: &[usize], initial: &[f64])
         // Without an answer, assume every species can form; the Newton
         // solve then reports if one cannot.
         None => absent.iter().for_each(|&j| available[j] = true),
+    }
+    available
+}
+
+/// A quick first pass: a reaction whose consumed species are all available
+/// (in one direction or the other) makes its products available. Every
+/// species it marks can form; the linear programme then decides only the
+/// rest, which are few in practice.
+fn propagate(nu: &DMatrix<f64>, reactions: &[usize], initial: &[f64]) -> Vec<bool> {
+    let mut available: Vec<bool> = initial.iter().map(|&x| x > 0.0).collect();
+    let mut changed = true;
+    while changed {
+        changed = false;
+        for &r in reactions {
+            for direction in [1.0, -1.0] {
+                let runs = (0..nu.ncols()).all(|i| direction * nu[(r, i)] >= 0.0 || available[i]);
+                if runs {
+                    for (i, a) in available.iter_mut().enumerate() {
+                        if direction * nu[(r, i)] > 0.0 && !*a {
+                            *a = true;
+                            changed = true;
+                        }
+                    }
+                }
+            }
+        }
     }
     available
 }

@@ -417,6 +417,44 @@ fn bad_input_is_reported_not_panicked() {
     assert!(solve(&p).why.unwrap().contains("volume"));
 }
 
+#[test]
+fn solid_consumed_by_a_competing_gas_product() {
+    // Found by the property test below. C0 + C1 + C2 ⇌ P0(g) with K = e^129
+    // competes with C1 + C2 ⇌ P1(s), K = e^80.6: the gas product is so
+    // favoured that it takes all of C1, including what the solid holds, so
+    // the solid vanishes and n(P0) = n0(C1) + n0(P1) to rounding
+    // (mass balance on C1 with C1 itself below 1e-50 mol).
+    let p = Problem {
+        species: vec![
+            species("C0", Phase::Gas, 0, 4.066235115163537),
+            species("C1", Phase::Gas, 0, 3.383821987896673),
+            species("C2", Phase::Gas, 0, 3.5914424632998165),
+            species("P0", Phase::Gas, 0, 0.0),
+            species("P1", Phase::Condensed, 0, 0.3158868066047981),
+        ],
+        reactions: vec![
+            Reaction {
+                label: "r0".to_string(),
+                stoich: vec![(3, 1.0), (0, -1.0), (1, -1.0), (2, -1.0)],
+                ln_k: 129.32516873953807,
+            },
+            Reaction {
+                label: "r1".to_string(),
+                stoich: vec![(4, 1.0), (1, -1.0), (2, -1.0)],
+                ln_k: 80.6086608249576,
+            },
+        ],
+        temperature_k: 700.0,
+        vessel: Vessel::ConstantVolume { volume_l: 4.0 },
+        activity: ActivityModel::Ideal,
+    };
+    let s = solve(&p);
+    assert!(s.converged, "{:?}", s.why);
+    assert_eq!(s.vanished, vec![4]);
+    assert!((s.amounts_mol[3] - (3.383821987896673 + 0.3158868066047981)).abs() < 1e-12);
+    assert!(s.amounts_mol[1] < 1e-50);
+}
+
 mod property {
     use super::*;
     use proptest::prelude::*;
@@ -427,6 +465,14 @@ mod property {
             Just(Phase::Solute),
             Just(Phase::Condensed)
         ]
+    }
+
+    fn charge() -> impl Strategy<Value = i32> {
+        prop_oneof![4 => -2i32..3, 1 => Just(i32::MIN), 1 => Just(i32::MAX)]
+    }
+
+    fn ln_k() -> impl Strategy<Value = f64> {
+        prop_oneof![8 => -800.0..800.0f64, 1 => Just(f64::MAX), 1 => Just(-1e308), 1 => Just(f64::NAN)]
     }
 
     fn amount() -> impl Strategy<Value = f64> {
@@ -443,9 +489,9 @@ mod property {
         #![proptest_config(ProptestConfig::with_cases(300))]
         #[test]
         fn solve_never_panics(
-            phases in proptest::collection::vec((phase(), -2i32..3, amount()), 1..6),
+            phases in proptest::collection::vec((phase(), charge(), amount()), 1..6),
             reactions in proptest::collection::vec(
-                (proptest::collection::vec((0usize..6, -3i32..4), 1..5), -800.0..800.0f64),
+                (proptest::collection::vec((0usize..6, -3i32..4), 1..5), ln_k()),
                 0..5,
             ),
             pressure in any::<bool>(),
@@ -484,6 +530,78 @@ mod property {
             } else {
                 prop_assert!(s.why.is_some());
             }
+        }
+    }
+
+    /// Components and products formed from them, every product from two or
+    /// three components, some products solid, constants over a wide range.
+    fn formed_system() -> impl Strategy<Value = Problem> {
+        (
+            2usize..7,
+            proptest::collection::vec(
+                (
+                    proptest::collection::vec(0usize..7, 2..4),
+                    -150.0..150.0f64,
+                    0u8..5,
+                    0.0..2.0f64,
+                ),
+                1..7,
+            ),
+            proptest::collection::vec(1e-6..5.0f64, 7),
+            any::<bool>(),
+        )
+            .prop_map(|(components, products, amounts, pressure)| {
+                let mut species: Vec<Species> = (0..components)
+                    .map(|k| Species {
+                        name: format!("C{k}"),
+                        phase: Phase::Gas,
+                        charge: 0,
+                        initial_mol: amounts[k],
+                    })
+                    .collect();
+                let mut reactions = Vec::new();
+                for (p, (parts, ln_k, kind, n0)) in products.iter().enumerate() {
+                    let index = species.len();
+                    species.push(Species {
+                        name: format!("P{p}"),
+                        // Solids only at constant volume: at constant pressure a
+                        // gas phase that condenses completely is out of scope.
+                        phase: if *kind == 0 && !pressure {
+                            Phase::Condensed
+                        } else {
+                            Phase::Gas
+                        },
+                        charge: 0,
+                        initial_mol: if *kind <= 1 { *n0 } else { 0.0 },
+                    });
+                    let mut stoich = vec![(index, 1.0)];
+                    stoich.extend(parts.iter().map(|&c| (c % components, -1.0)));
+                    reactions.push(Reaction {
+                        label: format!("r{p}"),
+                        stoich,
+                        ln_k: *ln_k,
+                    });
+                }
+                Problem {
+                    species,
+                    reactions,
+                    temperature_k: 700.0,
+                    vessel: if pressure {
+                        Vessel::ConstantPressure { pressure_bar: 3.0 }
+                    } else {
+                        Vessel::ConstantVolume { volume_l: 4.0 }
+                    },
+                    activity: ActivityModel::Ideal,
+                }
+            })
+    }
+
+    proptest! {
+        #![proptest_config(ProptestConfig::with_cases(400))]
+        #[test]
+        fn well_posed_problems_converge(problem in formed_system()) {
+            let s = solve(&problem);
+            prop_assert!(s.converged, "{:?}", s.why);
         }
     }
 }

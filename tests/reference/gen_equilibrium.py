@@ -29,6 +29,7 @@ import json
 import math
 import pathlib
 import sys
+import warnings
 
 import numpy as np
 import scipy
@@ -507,6 +508,9 @@ def close(a, b):
 
 
 def main():
+    # Trial points of the Levenberg-Marquardt search may overflow; those are
+    # rejected by the search itself and every kept result is verified.
+    warnings.filterwarnings("ignore", category=RuntimeWarning)
     data = generate()
     kinds = {}
     for s in data["systems"]:
