@@ -113,8 +113,23 @@ impl<'a> Solver<'a> {
                 .map(|(c, &k)| c * problem.reactions[k].ln_k)
                 .sum();
             let own = problem.reactions[*r].ln_k;
-            let mut why = format!("a combination of {}", terms.join(" + "));
-            if (own - combined).abs() > 1e-6 * own.abs().max(combined.abs()).max(1.0) {
+            let mut why = String::from("a combination of ");
+            for (i, t) in terms.iter().enumerate() {
+                match (i, t.strip_prefix('-')) {
+                    (0, _) => why.push_str(t),
+                    (_, Some(rest)) => {
+                        why.push_str(" − ");
+                        why.push_str(rest);
+                    }
+                    (_, None) => {
+                        why.push_str(" + ");
+                        why.push_str(t);
+                    }
+                }
+            }
+            // Rounding in the data leaves small differences; the library's
+            // cycle check judges those with the configured tolerance.
+            if (own - combined).abs() > 1e-3 * own.abs().max(combined.abs()).max(1.0) {
                 why.push_str(&format!(
                     "; its ln K ({own:.6}) disagrees with that combination ({combined:.6}), so it cannot hold with them"
                 ));
