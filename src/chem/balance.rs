@@ -73,8 +73,15 @@ impl Residual {
     }
 }
 
-fn big(r: &Ratio<i64>) -> BigRational {
-    BigRational::new(BigInt::from(*r.numer()), BigInt::from(*r.denom()))
+/// The exact value of `r` as a big rational. Integers (the usual case)
+/// skip the gcd; a value built with a zero denominator counts as zero
+/// rather than panicking.
+pub(crate) fn big(r: &Ratio<i64>) -> BigRational {
+    match *r.denom() {
+        1 => BigRational::from_integer(BigInt::from(*r.numer())),
+        0 => BigRational::zero(),
+        d => BigRational::new(BigInt::from(*r.numer()), BigInt::from(d)),
+    }
 }
 
 fn in_balance(f: &Formula) -> bool {
