@@ -134,7 +134,7 @@ impl Formula {
 
     /// The formula in Hill order (C, then H, then the rest alphabetically;
     /// alphabetically throughout when there is no carbon) with the charge
-    /// in the unambiguous `^` form: `C2H6O`, `O4S^2-`, `CuH10O9S`.
+    /// in the unambiguous `^` form: `C2H6O`, `O4S^2-`, `H4N^+`, `CuH10O9S`.
     pub fn hill(&self) -> String {
         match self.kind {
             SpeciesKind::Electron => return "e-".to_string(),
@@ -163,9 +163,14 @@ impl Formula {
                 out.push_str(&format_count(&n));
             }
         }
-        if self.charge != 0 {
-            out.push('^');
-            out.push_str(&charge_text(self.charge));
+        match self.charge {
+            0 => {}
+            1 => out.push_str("^+"),
+            -1 => out.push_str("^-"),
+            q => {
+                out.push('^');
+                out.push_str(&charge_text(q));
+            }
         }
         out
     }
@@ -1440,7 +1445,8 @@ mod tests {
         assert_eq!(ok("SO4^2-").hill(), "O4S^2-");
         assert_eq!(ok("CuSO4·5H2O").hill(), "CuH10O9S");
         assert_eq!(ok("CaSO4·0.5H2O").hill(), "CaHO4.5S");
-        assert_eq!(ok("NH4+").hill(), "H4N^1+");
+        assert_eq!(ok("NH4+").hill(), "H4N^+");
+        assert_eq!(ok("Cl-").hill(), "Cl^-");
         assert_eq!(ok("CHCl3").hill(), "CHCl3");
         assert_eq!(ok("e-").hill(), "e-");
         // H2O: 2 x 1.008 + 15.999 = 18.015 (CIAAW 2021 abridged weights).
