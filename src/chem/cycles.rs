@@ -38,16 +38,7 @@ use num_bigint::BigInt;
 use num_rational::{BigRational, Ratio};
 use num_traits::{CheckedAdd, CheckedMul, ToPrimitive, Zero};
 
-/// The exact value of `r` as a big rational. Integers (the usual case)
-/// skip the gcd; a value built with a zero denominator counts as zero
-/// rather than panicking.
-pub(crate) fn big(r: &Ratio<i64>) -> BigRational {
-    match *r.denom() {
-        1 => BigRational::from_integer(BigInt::from(*r.numer())),
-        0 => BigRational::zero(),
-        d => BigRational::new(BigInt::from(*r.numer()), BigInt::from(d)),
-    }
-}
+use super::balance::big;
 
 /// An exact rational that stays on machine integers while it fits and
 /// moves to big integers when it does not, so that the common case (small
