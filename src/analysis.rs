@@ -85,7 +85,7 @@ fn finish(ws: &Workspace, raw: Vec<Diagnostic>, config: &Config) -> Vec<Diagnost
             Level::Off => continue,
             Level::On(sev) => {
                 // A hint the checks chose stays a hint unless configured.
-                if !(d.severity == Severity::Hint && !config.rules.contains_key(d.rule)) {
+                if d.severity != Severity::Hint || config.rules.contains_key(d.rule) {
                     d.severity = sev;
                 }
             }

@@ -477,16 +477,22 @@ impl ReactionK {
     /// there are several temperatures), then the reaction's energies, then
     /// species data, then rate constants.
     pub fn ln_k_at(&self, t: f64) -> Result<Estimate, Unknown> {
-        let groups: [(&[Point], Origin); 3] = [
-            (&self.stated, Origin::Stated(KForm::K)),
-            (&self.gibbs, Origin::Gibbs),
-            (&self.rates, Origin::Rates),
-        ];
+        let groups: [&[Point]; 3] = [&self.stated, &self.gibbs, &self.rates];
+        // A value stated at the very temperature wins over any carried one.
+        for points in &groups[..2] {
+            if let Some(p) = points.iter().find(|p| (p.t - t).abs() < 1e-9) {
+                return Ok(Estimate {
+                    ln_k: p.ln_k,
+                    origin: p.origin,
+                    carried: false,
+                });
+            }
+        }
         let mut first_known: Option<f64> = None;
-        for (i, (points, _)) in groups.iter().enumerate() {
+        for (i, points) in groups.iter().enumerate() {
             if i == 2 {
                 // Energies of other kinds come before rate constants.
-                if let Some(e) = self.from_energies(t) {
+                if let Some(e) = self.energies_at(t) {
                     return Ok(e);
                 }
             }
@@ -506,20 +512,8 @@ impl ReactionK {
                     temps.push((p.t, p.ln_k));
                 }
             }
-            if self.dh.is_some() {
-                let nearest = points
-                    .iter()
-                    .min_by(|a, b| (a.t - t).abs().total_cmp(&(b.t - t).abs()));
-                if let Some(p) = nearest
-                    && let Some(ln_k) = self.carry(p, t)
-                {
-                    return Ok(Estimate {
-                        ln_k,
-                        origin: p.origin,
-                        carried: true,
-                    });
-                }
-            }
+            // A table of several temperatures is the data itself: interpolate
+            // it in ln K against 1/T; otherwise carry the nearest point.
             if temps.len() >= 2
                 && let Ok(table) = KTable::new(&temps)
             {
@@ -529,12 +523,19 @@ impl ReactionK {
                     carried: true,
                 });
             }
+            let nearest = points
+                .iter()
+                .min_by(|a, b| (a.t - t).abs().total_cmp(&(b.t - t).abs()));
+            if let Some(p) = nearest
+                && let Some(ln_k) = self.carry(p, t)
+            {
+                return Ok(Estimate {
+                    ln_k,
+                    origin: p.origin,
+                    carried: true,
+                });
+            }
             first_known.get_or_insert(points[0].t);
-        }
-        if self.rates.is_empty()
-            && let Some(e) = self.from_energies(t)
-        {
-            return Ok(e);
         }
         match first_known {
             Some(known_t) => Err(Unknown::NoTemperatureDependence { known_t }),
@@ -542,7 +543,7 @@ impl ReactionK {
         }
     }
 
-    fn from_energies(&self, t: f64) -> Option<Estimate> {
+    fn energies_at(&self, t: f64) -> Option<Estimate> {
         if let Some(p) = &self.enthalpy_entropy {
             let (dh, _, _) = self.dh?;
             let ds = self.stated_ds?;

@@ -11,6 +11,10 @@ use num_rational::BigRational;
 use num_traits::ToPrimitive;
 use std::collections::HashMap;
 
+/// A reaction's canonical stoichiometry: duplicates, reverses and multiples
+/// share it.
+type Key = Vec<(u32, BigRational)>;
+
 fn as_u32_vector(c: &Checked) -> Vec<(u32, num_rational::Ratio<i64>)> {
     c.reaction
         .net()
@@ -46,7 +50,7 @@ pub(super) fn check(
     rel: f64,
     out: &mut Vec<Diagnostic>,
 ) {
-    let mut groups: HashMap<Vec<(u32, BigRational)>, Vec<(usize, BigRational)>> = HashMap::new();
+    let mut groups: HashMap<Key, Vec<(usize, BigRational)>> = HashMap::new();
     for (i, c) in checked.iter().enumerate() {
         let v = as_u32_vector(c);
         if v.is_empty() {

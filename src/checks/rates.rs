@@ -9,10 +9,12 @@ use crate::span::Span;
 use crate::units::Dimension;
 
 fn spell_power(base: &str, n: f64) -> String {
-    match n {
-        x if x == 1.0 => base.to_string(),
-        x if x == 0.0 => "no unit (dimensionless)".to_string(),
-        x => format!("{base}^{x}"),
+    if n == 1.0 {
+        base.to_string()
+    } else if n == 0.0 {
+        "no unit (dimensionless)".to_string()
+    } else {
+        format!("{base}^{n}")
     }
 }
 
@@ -35,11 +37,7 @@ pub(super) fn check(lib: &Library, c: &Checked, out: &mut Vec<Diagnostic>) {
             }
             _ => continue,
         };
-        let n_total = if k.form == KForm::Kc {
-            dn_gas + dn_aq
-        } else {
-            dn_gas + dn_aq
-        };
+        let n_total = dn_gas + dn_aq;
         match (k.dimension, expected, k.unit_loc) {
             (Some(dim), Some(e), Some(unit_loc)) if dim != e => {
                 let other = if k.form == KForm::Kc { "Kp" } else { "Kc" };
@@ -50,7 +48,7 @@ pub(super) fn check(lib: &Library, c: &Checked, out: &mut Vec<Diagnostic>) {
                     format!(
                         "{form_name} of this reaction (Δn = {}) needs {spelled}, but the unit given is {}",
                         dn_gas + dn_aq,
-                        crate::model::quantity::describe(dim)
+                        dim.spell()
                     ),
                 );
                 let other_dim = if k.form == KForm::Kc {
@@ -98,7 +96,8 @@ pub(super) fn check(lib: &Library, c: &Checked, out: &mut Vec<Diagnostic>) {
             RateKind::Forward => Side::Left,
             RateKind::Reverse => Side::Right,
         };
-        let ord = order(lib, r, side);
+        // Adding 0.0 turns a negative zero into zero for messages.
+        let ord = order(lib, r, side) + 0.0;
         if ord.fract() != 0.0 || !(0.0..=6.0).contains(&ord) {
             continue;
         }
@@ -145,9 +144,11 @@ pub(super) fn check(lib: &Library, c: &Checked, out: &mut Vec<Diagnostic>) {
 
 /// A unit text raised to a power (`M^2`, `1/bar`).
 fn power_unit(base: &str, n: f64) -> String {
-    match n {
-        x if x == 1.0 => base.to_string(),
-        x if x == -1.0 => format!("1/{base}"),
-        x => format!("{base}^{x}"),
+    if n == 1.0 {
+        base.to_string()
+    } else if n == -1.0 {
+        format!("1/{base}")
+    } else {
+        format!("{base}^{n}")
     }
 }

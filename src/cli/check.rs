@@ -42,7 +42,12 @@ pub fn run(
     deny_warnings: bool,
     stdin_name: Option<&Path>,
 ) -> i32 {
-    let default = [PathBuf::from(".")];
+    // `--stdin-filename` alone means the text comes from standard input.
+    let default = if stdin_name.is_some() {
+        [PathBuf::from("-")]
+    } else {
+        [PathBuf::from(".")]
+    };
     let paths = if paths.is_empty() {
         &default[..]
     } else {

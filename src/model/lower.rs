@@ -116,7 +116,7 @@ impl<'w> Lowering<'w> {
                 let mut d = Diagnostic::new(rule, file, at, e.message.clone());
                 if let Some(first) = e.suggestions.first() {
                     d = d.with_help(format!("did you mean `{first}`?"));
-                    for s in e.suggestions.iter().take(3) {
+                    for s in e.suggestions.iter().take(1) {
                         d = d.with_fix(Fix {
                             title: format!("write `{s}`"),
                             applicability: Applicability::Unsafe,

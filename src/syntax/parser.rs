@@ -82,7 +82,9 @@ impl<'t> Parser<'t> {
     }
 
     fn line(&mut self, lexemes: &[Lexeme], line_no: usize) {
-        let indented = matches!(lexemes.first(), Some(l) if l.token == Token::Space);
+        // A byte order mark at the start of the file is no indentation.
+        let indented = matches!(lexemes.first(), Some(l) if l.token == Token::Space
+            && !(l.span.start == 0 && self.text[l.span.range()] == *"\u{feff}"));
         let mut tokens: Vec<Lexeme> = Vec::with_capacity(lexemes.len());
         for l in lexemes {
             match l.token {
@@ -300,14 +302,40 @@ impl<'t> Parser<'t> {
                 (None, &head[i + 1..])
             }
             None => {
-                let at = head.first().map(|l| l.span).unwrap_or(keyword);
-                self.error(
-                    Span::empty(keyword.end),
-                    "expected `:` before the equation",
-                    Some("write `reaction: A <=> B` or `reaction LABEL: A <=> B`".into()),
-                );
-                let _ = at;
-                (None, head)
+                // `reaction flare H2 + Cl2 -> 2 HCl`: a label with its colon
+                // forgotten, when the second word is no `+` or arrow.
+                let labelled = head.len() >= 3
+                    && head[0].token == Token::Word
+                    && head[1].token == Token::Word
+                    && self.slice(head[1].span) != "+"
+                    && coefficient_prefix(self.slice(head[0].span)) == 0
+                    && self
+                        .slice(head[0].span)
+                        .chars()
+                        .next()
+                        .is_some_and(|c| c.is_lowercase());
+                if labelled {
+                    let label = self.name(head[0].span);
+                    self.error(
+                        Span::empty(label.span.end),
+                        format!(
+                            "expected `:` after the label `{}`",
+                            truncate(&label.text, 30)
+                        ),
+                        Some(format!(
+                            "write `reaction {}: ...`",
+                            truncate(&label.text, 30)
+                        )),
+                    );
+                    (Some(label), &head[1..])
+                } else {
+                    self.error(
+                        Span::empty(keyword.end),
+                        "expected `:` before the equation",
+                        Some("write `reaction: A <=> B` or `reaction LABEL: A <=> B`".into()),
+                    );
+                    (None, head)
+                }
             }
         };
         let equation = if eq_tokens.is_empty() {
@@ -726,12 +754,7 @@ pub fn coefficient_prefix(text: &str) -> usize {
     if end == 0 {
         return 0;
     }
-    if end < bytes.len() && bytes[end] == b'.' {
-        let after = digits(end + 1);
-        if after > end + 1 {
-            end = after;
-        }
-    } else if end < bytes.len() && bytes[end] == b'/' {
+    if end < bytes.len() && (bytes[end] == b'.' || bytes[end] == b'/') {
         let after = digits(end + 1);
         if after > end + 1 {
             end = after;
