@@ -95,15 +95,37 @@ fn classify(all: &[Lexeme], lo: usize, hi: usize, start: usize, end: usize) -> S
 }
 
 /// A statement's lines as written, without whitespace at their ends.
-pub fn verbatim_statement(text: &str, lines: &[SourceLine], newline: &str) -> String {
+pub fn verbatim_statement(
+    text: &str,
+    lines: &[SourceLine],
+    all: &[Lexeme],
+    newline: &str,
+) -> String {
     let mut out = String::new();
     for (j, line) in lines.iter().enumerate() {
         if j > 0 {
             out.push_str(newline);
         }
-        out.push_str(text[line.start..line.end].trim_end_matches(is_space));
+        out.push_str(&text[line.start..content_end(text, line, all)]);
     }
     out
+}
+
+/// Where a line's text ends once whitespace at its end is removed: the
+/// spaces after its last token and at the end of a trailing comment. An
+/// unclosed string runs to the line end and is kept whole, spaces and all.
+fn content_end(text: &str, line: &SourceLine, all: &[Lexeme]) -> usize {
+    let mut lexemes = line.lexemes(all);
+    if let [rest @ .., last] = lexemes
+        && last.token == Token::Space
+    {
+        lexemes = rest;
+    }
+    match lexemes.last() {
+        Some(l) if l.token == Token::Comment => l.span.start + comment_text(text, l).len(),
+        Some(l) => l.span.end,
+        None => line.start,
+    }
 }
 
 /// A comment on a line of its own, at column 0 or indented by two.

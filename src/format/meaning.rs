@@ -28,7 +28,7 @@ fn same_tokens(before: &str, after: &str) -> bool {
             .map(|l| {
                 let piece = &text[l.span.range()];
                 let piece = match l.token {
-                    Token::Comment | Token::UnterminatedStr => piece.trim_end_matches(is_space),
+                    Token::Comment => piece.trim_end_matches(is_space),
                     _ => piece,
                 };
                 (l.token, piece.to_string())

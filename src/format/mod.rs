@@ -31,7 +31,8 @@
 //!   start of the file is kept.
 //! - Non-breaking spaces and U+FEFF between two tokens are kept as written,
 //!   because inside a value they are part of the text the value is read from.
-//! - Unicode (`⇌`, `·`, `²`, `°C`), strings, numbers and units are untouched.
+//! - Unicode (`⇌`, `·`, `²`, `°C`), strings, numbers and units are untouched;
+//!   an unclosed string runs to the line end and is kept whole, spaces and all.
 //!
 //! # What is left alone
 //!
@@ -151,14 +152,14 @@ fn format_body(text: &str) -> String {
                 let broken =
                     line.kind == LineKind::Continuation || error_line[i..=last].iter().any(|&e| e);
                 let rendered = if broken {
-                    verbatim_statement(text, statement, newline)
+                    verbatim_statement(text, statement, &lexemes, newline)
                 } else {
                     let formatted = format_statement(text, statement, &lexemes, newline);
                     let original = &text[statement[0].start..statement[statement.len() - 1].end];
                     if formatted == original || meaning::same_meaning(original, &formatted) {
                         formatted
                     } else {
-                        verbatim_statement(text, statement, newline)
+                        verbatim_statement(text, statement, &lexemes, newline)
                     }
                 };
                 out.lines(&rendered);

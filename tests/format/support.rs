@@ -13,8 +13,7 @@ fn is_space(c: char) -> bool {
 }
 
 /// Every token that is not layout, with its text. Whitespace at the end of
-/// a comment (or of an unclosed string, which also runs to the line end) is
-/// layout: the formatter removes whitespace at line ends.
+/// a comment is layout: the formatter removes whitespace at line ends.
 pub fn significant_tokens(text: &str) -> Vec<(Token, String)> {
     lex(text)
         .into_iter()
@@ -22,7 +21,7 @@ pub fn significant_tokens(text: &str) -> Vec<(Token, String)> {
         .map(|l| {
             let piece = &text[l.span.range()];
             let piece = match l.token {
-                Token::Comment | Token::UnterminatedStr => piece.trim_end_matches(is_space),
+                Token::Comment => piece.trim_end_matches(is_space),
                 _ => piece,
             };
             (l.token, piece.to_string())
