@@ -55,7 +55,10 @@ fn check_lists_changes_and_rewrite_fixes_them() {
     assert!(stderr.contains("-reaction   a :A<=>B"), "{stderr}");
     assert!(stderr.contains("+reaction a: A <=> B"), "{stderr}");
     assert!(!stderr.contains("b.stoik"), "{stderr}");
-    assert!(!stderr.contains("c.stoik"), "an ignored folder is skipped: {stderr}");
+    assert!(
+        !stderr.contains("c.stoik"),
+        "an ignored folder is skipped: {stderr}"
+    );
     assert!(out.stdout.is_empty());
     assert_eq!(read(&root.join("a.stoik")), MESSY, "--check writes nothing");
 
@@ -74,7 +77,10 @@ fn check_lists_changes_and_rewrite_fixes_them() {
 #[test]
 fn a_named_file_is_formatted_in_place() {
     let dir = tempfile::tempdir().expect("tempdir");
-    write(&dir.path().join("x.stoik"), "species  A\r\n  S=1 J/(mol*K)\r\n");
+    write(
+        &dir.path().join("x.stoik"),
+        "species  A\r\n  S=1 J/(mol*K)\r\n",
+    );
     let out = stoik(dir.path(), &["fmt", "x.stoik"], None);
     assert_eq!(out.status.code(), Some(0));
     assert_eq!(

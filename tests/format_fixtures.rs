@@ -48,7 +48,10 @@ fn check(input: &Path) -> Result<(), String> {
 #[test]
 fn every_fixture_formats_to_its_expected_output() {
     let inputs = fixture_inputs();
-    assert!(inputs.len() >= 6, "expected the formatter fixtures, found {inputs:?}");
+    assert!(
+        inputs.len() >= 6,
+        "expected the formatter fixtures, found {inputs:?}"
+    );
     let failures: Vec<String> = inputs.iter().filter_map(|p| check(p).err()).collect();
     assert!(failures.is_empty(), "{}", failures.join("\n\n"));
 }

@@ -16,7 +16,11 @@ fn the_notation_examples_keep_their_meaning() {
     let formatted = format(NOTATION);
     let (before, before_errors) = meaning(NOTATION);
     let (after, after_errors) = meaning(&formatted);
-    assert!(before.len() > 60, "the examples hold {} statements", before.len());
+    assert!(
+        before.len() > 60,
+        "the examples hold {} statements",
+        before.len()
+    );
     assert_eq!(before, after);
     assert_eq!(before_errors, after_errors);
     assert_eq!(significant_tokens(NOTATION), significant_tokens(&formatted));
@@ -54,7 +58,10 @@ fn the_examples_read_as_the_reference_says() {
 #[test]
 fn every_fixture_keeps_its_meaning() {
     let dir = std::path::Path::new(env!("CARGO_MANIFEST_DIR")).join("tests/format");
-    for entry in std::fs::read_dir(dir).expect("fixtures").filter_map(Result::ok) {
+    for entry in std::fs::read_dir(dir)
+        .expect("fixtures")
+        .filter_map(Result::ok)
+    {
         let path = entry.path();
         if !path.to_string_lossy().ends_with(".in.stoik") {
             continue;

@@ -14,15 +14,91 @@ use support::{comments, meaning, significant_tokens};
 /// Pieces of the notation, valid and broken, to glue into random files.
 fn fragment() -> impl Strategy<Value = String> {
     let fixed = prop::sample::select(vec![
-        "reaction", "reaction ", "reaction shift", "species ", "mixture ", "units ", "use ",
-        "energy", "K", "Kc", "dH", "kf", "source", "temperature", "CO(g)", "H2O(g)", "2 NH3",
-        "2NH3", "1/2", "O2", "Fe^3+", "SO4^2-", "Cu²⁺", "SO₄²⁻", "CuSO4·5H2O", "e-", "M", "hv",
-        "A-", "<=>", "⇌", "⇄", "->", "→", "<->", "↔", "=", "<", ">", "+", " + ", ":", ";", ",",
-        " ; ", " = ", "1.0e5", "-41.2", "298.15", "at", " at ", "kJ/mol", "J/(mol*K)", "°C",
-        "degC", "1/s", "arrhenius(", "A = 1e13 1/s", ", n = 0", "Ea = 80 kJ/mol", ")", "\"str\"",
-        "\"open", "\"esc\\\"aped\"", "# comment", "#", "# stoik: allow x", "\n", "\n", "\n",
-        "\r\n", "\r", "\n\n\n", " ", "  ", "   ", "\t", "\u{a0}", "\u{feff}", "\n  ", "\n\t",
-        "\n    ", "1e400", "0 A", "ethanol",
+        "reaction",
+        "reaction ",
+        "reaction shift",
+        "species ",
+        "mixture ",
+        "units ",
+        "use ",
+        "energy",
+        "K",
+        "Kc",
+        "dH",
+        "kf",
+        "source",
+        "temperature",
+        "CO(g)",
+        "H2O(g)",
+        "2 NH3",
+        "2NH3",
+        "1/2",
+        "O2",
+        "Fe^3+",
+        "SO4^2-",
+        "Cu²⁺",
+        "SO₄²⁻",
+        "CuSO4·5H2O",
+        "e-",
+        "M",
+        "hv",
+        "A-",
+        "<=>",
+        "⇌",
+        "⇄",
+        "->",
+        "→",
+        "<->",
+        "↔",
+        "=",
+        "<",
+        ">",
+        "+",
+        " + ",
+        ":",
+        ";",
+        ",",
+        " ; ",
+        " = ",
+        "1.0e5",
+        "-41.2",
+        "298.15",
+        "at",
+        " at ",
+        "kJ/mol",
+        "J/(mol*K)",
+        "°C",
+        "degC",
+        "1/s",
+        "arrhenius(",
+        "A = 1e13 1/s",
+        ", n = 0",
+        "Ea = 80 kJ/mol",
+        ")",
+        "\"str\"",
+        "\"open",
+        "\"esc\\\"aped\"",
+        "# comment",
+        "#",
+        "# stoik: allow x",
+        "\n",
+        "\n",
+        "\n",
+        "\r\n",
+        "\r",
+        "\n\n\n",
+        " ",
+        "  ",
+        "   ",
+        "\t",
+        "\u{a0}",
+        "\u{feff}",
+        "\n  ",
+        "\n\t",
+        "\n    ",
+        "1e400",
+        "0 A",
+        "ethanol",
     ])
     .prop_map(str::to_string);
     prop_oneof![
@@ -49,11 +125,31 @@ fn ws1() -> impl Strategy<Value = &'static str> {
 /// A statement header of one of the five kinds.
 fn header() -> impl Strategy<Value = String> {
     let species = prop::sample::select(vec![
-        "CO(g)", "H2O(g)", "2 NH3(g)", "1/2 O2(g)", "Fe^3+(aq)", "Cu²⁺", "e-", "0.5 O2", "3H2",
+        "CO(g)",
+        "H2O(g)",
+        "2 NH3(g)",
+        "1/2 O2(g)",
+        "Fe^3+(aq)",
+        "Cu²⁺",
+        "e-",
+        "0.5 O2",
+        "3H2",
     ]);
     let arrow = prop::sample::select(vec!["<=>", "⇌", "->", "→", "=", "<->"]);
     prop_oneof![
-        (ws(), ws(), species.clone(), ws1(), species.clone(), ws(), arrow, ws(), species.clone(), ws1(), species.clone())
+        (
+            ws(),
+            ws(),
+            species.clone(),
+            ws1(),
+            species.clone(),
+            ws(),
+            arrow,
+            ws(),
+            species.clone(),
+            ws1(),
+            species.clone()
+        )
             .prop_map(|(a, b, s1, c, s2, d, ar, e, s3, f, s4)| {
                 format!("reaction{a}lbl{b}:{c}{s1}{c}+{f}{s2}{d}{ar}{e}{s3}{f}+{c}{s4}")
             }),
@@ -100,14 +196,15 @@ fn library() -> impl Strategy<Value = String> {
         1 => Just("   # indented comment   ".to_string()),
     ];
     let newline = prop::sample::select(vec!["\n", "\r\n", "\r"]);
-    (prop::collection::vec(line, 0..30), newline, any::<bool>())
-        .prop_map(|(lines, nl, final_nl)| {
+    (prop::collection::vec(line, 0..30), newline, any::<bool>()).prop_map(
+        |(lines, nl, final_nl)| {
             let mut text = lines.join(nl);
             if final_nl {
                 text.push_str(nl);
             }
             text
-        })
+        },
+    )
 }
 
 /// Everything the formatter promises about one input.
@@ -124,16 +221,18 @@ fn check_invariants(text: &str) -> Result<(), TestCaseError> {
     // the line end and is kept whole.
     let lexemes = lex(&once);
     for (i, l) in lexemes.iter().enumerate() {
-        let at_line_end = lexemes
-            .get(i + 1)
-            .is_none_or(|n| n.token == Token::Newline);
+        let at_line_end = lexemes.get(i + 1).is_none_or(|n| n.token == Token::Newline);
         let piece = &once[l.span.range()];
         let bad = match l.token {
             Token::Space => !(l.span.start == 0 && piece == "\u{feff}"),
             Token::Comment => piece.ends_with([' ', '\t', '\u{a0}', '\u{feff}']),
             _ => false,
         };
-        prop_assert!(!(at_line_end && bad), "whitespace at a line end: {:?}", piece);
+        prop_assert!(
+            !(at_line_end && bad),
+            "whitespace at a line end: {:?}",
+            piece
+        );
     }
     if !once.is_empty() {
         prop_assert!(once.ends_with(['\n', '\r']), "no final line end");
@@ -146,7 +245,10 @@ fn check_invariants(text: &str) -> Result<(), TestCaseError> {
             .map(|l| t[l.span.range()].to_string())
             .collect::<Vec<_>>()
     };
-    let first = style(text).into_iter().next().unwrap_or_else(|| "\n".into());
+    let first = style(text)
+        .into_iter()
+        .next()
+        .unwrap_or_else(|| "\n".into());
     prop_assert!(style(&once).iter().all(|s| *s == first), "mixed line ends");
     Ok(())
 }
@@ -179,7 +281,8 @@ proptest! {
 fn generated_libraries_are_mostly_rewritten() {
     // The properties above would hold for a formatter that never changes
     // anything; make sure the library strategy's texts do get laid out.
-    let text = "reaction  lbl :  CO(g)  +  H2O(g)  <=>  CO2(g)  +  H2(g)\n\tK=1.0e5  at   25 °C #x\n";
+    let text =
+        "reaction  lbl :  CO(g)  +  H2O(g)  <=>  CO2(g)  +  H2(g)\n\tK=1.0e5  at   25 °C #x\n";
     assert_eq!(
         format(text),
         "reaction lbl: CO(g) + H2O(g) <=> CO2(g) + H2(g)\n  K = 1.0e5 at 25 °C  #x\n"

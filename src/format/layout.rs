@@ -5,6 +5,7 @@
 //! never touch the text of a token. [`super`] decides which statements these
 //! rules may rewrite and checks the result.
 
+use crate::span::Span;
 use crate::syntax::lexer::{Lexeme, Token};
 
 /// The indentation of attribute lines and indented comments.
@@ -157,6 +158,50 @@ fn attribute_name<'t>(text: &'t str, lexemes: &[Lexeme]) -> Option<&'t str> {
     }
 }
 
+/// Where an attribute value lies, and whether a run of spaces and tabs in
+/// it may become one space without a second look: a number with a unit and
+/// a bare word read any such run alike, a string or `arrhenius(...)` may
+/// not.
+#[derive(Clone, Copy, Debug)]
+pub struct ValueSpan {
+    pub span: Span,
+    pub squashable: bool,
+}
+
+/// A statement in canonical layout, and whether the rewrite changed the
+/// spacing inside a value in a way only a second parse can clear.
+pub struct Formatted {
+    pub text: String,
+    pub needs_check: bool,
+}
+
+/// What rendering one statement needs besides the line at hand.
+struct Context<'t, 'v> {
+    text: &'t str,
+    /// The statement's value spans, in text order.
+    values: &'v [ValueSpan],
+    needs_check: bool,
+}
+
+impl Context<'_, '_> {
+    /// Note a changed gap between two tokens. Outside values the parser
+    /// reads tokens, not spaces, so any gap is safe there; inside a value
+    /// only a run of blanks becoming one space is.
+    fn gap_changed(&mut self, prev: Span, cur: Span, written: Option<&str>, new: &str) {
+        let i = self.values.partition_point(|v| v.span.start <= prev.start);
+        let Some(v) = i.checked_sub(1).map(|i| self.values[i]) else {
+            return;
+        };
+        if cur.end > v.span.end {
+            return;
+        }
+        let blanks = written.is_some_and(|g| g.chars().all(|c| c == ' ' || c == '\t'));
+        if !(v.squashable && blanks && new == " ") {
+            self.needs_check = true;
+        }
+    }
+}
+
 /// One rendered line of code and its trailing comment, if any.
 struct Rendered<'t> {
     code: String,
@@ -165,7 +210,18 @@ struct Rendered<'t> {
 
 /// The canonical layout of one statement that parses without errors: its
 /// header line first, then attribute, comment and blank lines.
-pub fn format_statement(text: &str, lines: &[SourceLine], all: &[Lexeme], newline: &str) -> String {
+pub fn format_statement(
+    text: &str,
+    lines: &[SourceLine],
+    all: &[Lexeme],
+    newline: &str,
+    values: &[ValueSpan],
+) -> Formatted {
+    let mut cx = Context {
+        text,
+        values,
+        needs_check: false,
+    };
     // Runs of attribute lines that no blank line breaks share alignment.
     let mut runs: Vec<Vec<usize>> = Vec::new();
     let mut open = false;
@@ -200,7 +256,7 @@ pub fn format_statement(text: &str, lines: &[SourceLine], all: &[Lexeme], newlin
                 .map(|name| width - name.chars().count())
                 .unwrap_or(0);
             let mut code = String::from(INDENT);
-            let comment = render_code(text, lexemes, false, pad, &mut code);
+            let comment = render_code(&mut cx, lexemes, false, pad, &mut code);
             if comment.is_some() {
                 column = column.max(code.chars().count() + COMMENT_GAP);
             }
@@ -232,7 +288,7 @@ pub fn format_statement(text: &str, lines: &[SourceLine], all: &[Lexeme], newlin
             }
             LineKind::Header => {
                 start_line(&mut out);
-                let comment = render_code(text, line.lexemes(all), true, 0, &mut out);
+                let comment = render_code(&mut cx, line.lexemes(all), true, 0, &mut out);
                 if let Some(c) = comment {
                     push_spaces(&mut out, COMMENT_GAP);
                     out.push_str(c);
@@ -251,7 +307,10 @@ pub fn format_statement(text: &str, lines: &[SourceLine], all: &[Lexeme], newlin
             }
         }
     }
-    out
+    Formatted {
+        text: out,
+        needs_check: cx.needs_check,
+    }
 }
 
 fn push_spaces(out: &mut String, n: usize) {
@@ -261,13 +320,14 @@ fn push_spaces(out: &mut String, n: usize) {
 /// Append the code of one line in canonical spacing, the attribute name
 /// padded by `name_pad` spaces; return the line's trailing comment.
 fn render_code<'t>(
-    text: &'t str,
+    cx: &mut Context<'t, '_>,
     lexemes: &[Lexeme],
     header: bool,
     name_pad: usize,
     out: &mut String,
 ) -> Option<&'t str> {
-    let mut prev: Option<Token> = None;
+    let text = cx.text;
+    let mut prev: Option<Lexeme> = None;
     let mut gap: Option<&str> = None;
     let mut comment = None;
     let mut count = 0usize;
@@ -283,13 +343,17 @@ fn render_code<'t>(
             Token::Newline => {}
             token => {
                 if let Some(p) = prev {
-                    out.push_str(separator(p, token, gap, header && count == 1));
+                    let sep = separator(p.token, token, gap, header && count == 1);
+                    if sep != gap.unwrap_or("") {
+                        cx.gap_changed(p.span, l.span, gap, sep);
+                    }
+                    out.push_str(sep);
                 }
                 out.push_str(piece);
                 if count == 0 {
                     push_spaces(out, name_pad);
                 }
-                prev = Some(token);
+                prev = Some(*l);
                 gap = None;
                 count += 1;
             }
@@ -300,7 +364,7 @@ fn render_code<'t>(
 
 /// The whitespace between two tokens of a line; `gap` is what was written
 /// between them. `after_keyword` marks the gap after a header's keyword.
-fn separator<'g>(prev: Token, cur: Token, gap: Option<&'g str>, after_keyword: bool) -> &'g str {
+fn separator(prev: Token, cur: Token, gap: Option<&str>, after_keyword: bool) -> &str {
     use Token::*;
     if let Some(g) = gap
         && g.chars().any(|c| c != ' ' && c != '\t')

@@ -38,20 +38,28 @@
 //!
 //! A statement (its header and the attribute lines that continue it) with a
 //! syntax error is kept exactly as written, apart from whitespace at line
-//! ends. Every statement the formatter does rewrite is parsed again, alone,
-//! before and after; if the two readings differ in any equation, attribute,
-//! value, error or token, the statement is kept as written instead. The check
-//! is what lets the layout rules stay simple without ever risking meaning.
+//! ends. Outside attribute values the parser reads tokens, not spaces, and
+//! the rules never join or split a token, so spacing there is free. Inside a
+//! value the text itself is read, so a rewrite that does more there than
+//! turn a run of blanks in a number, unit or bare word into one space is
+//! checked: the statement is parsed again, alone, before and after, and if
+//! the two readings differ in any equation, attribute, value, error or
+//! token, the statement is kept as written instead. The check is what lets
+//! the layout rules stay simple without ever risking meaning.
 //!
 //! The work is linear in the size of the file: one lexing and parsing pass
-//! for the whole file, and one more parse of each statement that changed.
+//! for the whole file, and one more parse of each statement whose values
+//! need the check.
 
 mod layout;
 mod meaning;
 
+use crate::syntax::ast::{Statement, ValueKind};
 use crate::syntax::lexer::{Lexeme, Token, lex};
 use crate::syntax::parse;
-use layout::{LineKind, SourceLine, format_statement, free_comment_line, verbatim_statement};
+use layout::{
+    LineKind, SourceLine, ValueSpan, format_statement, free_comment_line, verbatim_statement,
+};
 
 /// The byte order mark that some editors put at the start of a file.
 const BOM: char = '\u{feff}';
@@ -119,7 +127,9 @@ fn format_body(text: &str) -> String {
     let lines = layout::split_lines(text, &lexemes);
     let mut error_line = vec![false; lines.len()];
     let starts: Vec<usize> = lines.iter().map(|l| l.start).collect();
-    for e in parse(text).errors {
+    let parsed = parse(text);
+    let mut parsed_statements = parsed.statements.iter().peekable();
+    for e in &parsed.errors {
         let line = starts
             .partition_point(|&s| s <= e.span.start)
             .saturating_sub(1);
@@ -154,10 +164,18 @@ fn format_body(text: &str) -> String {
                 let rendered = if broken {
                     verbatim_statement(text, statement, &lexemes, newline)
                 } else {
-                    let formatted = format_statement(text, statement, &lexemes, newline);
+                    while parsed_statements.next_if(|s| s.line < i).is_some() {}
+                    let values = parsed_statements
+                        .next_if(|s| s.line == i)
+                        .map(value_spans)
+                        .unwrap_or_default();
+                    let formatted = format_statement(text, statement, &lexemes, newline, &values);
                     let original = &text[statement[0].start..statement[statement.len() - 1].end];
-                    if formatted == original || meaning::same_meaning(original, &formatted) {
-                        formatted
+                    if !formatted.needs_check
+                        || formatted.text == original
+                        || meaning::same_meaning(original, &formatted.text)
+                    {
+                        formatted.text
                     } else {
                         verbatim_statement(text, statement, &lexemes, newline)
                     }
@@ -168,6 +186,20 @@ fn format_body(text: &str) -> String {
         }
     }
     out.text
+}
+
+/// The spans of a parsed statement's values, in text order.
+fn value_spans(statement: &Statement) -> Vec<ValueSpan> {
+    let mut spans: Vec<ValueSpan> = statement
+        .attributes
+        .iter()
+        .map(|a| ValueSpan {
+            span: a.value.span,
+            squashable: matches!(a.value.kind, ValueKind::Quantity(_) | ValueKind::Word(_)),
+        })
+        .collect();
+    spans.sort_by_key(|v| v.span.start);
+    spans
 }
 
 /// The last line of the statement that starts at `first`: the last
