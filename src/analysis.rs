@@ -53,12 +53,16 @@ pub fn analyze(workspace: Workspace, config: &Config) -> Analysis {
     let mut libraries = Vec::new();
     for top in workspace.tops() {
         let files = workspace.closure(top);
+        let clock = crate::checks::Phases::start();
         let (library, diags) = crate::model::lower::lower(&workspace, &files, config);
+        clock.mark("lowering");
         raw.extend(diags);
         raw.extend(crate::checks::run(&workspace, &library, config));
         libraries.push(LibraryResult { top, library });
     }
+    let clock = crate::checks::Phases::start();
     let diagnostics = finish(&workspace, raw, config);
+    clock.mark("suppressions and severities");
     Analysis {
         workspace,
         libraries,

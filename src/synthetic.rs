@@ -102,11 +102,21 @@ pub fn generate(recipe: &Recipe) -> Generated {
     for (c, g) in &monomers {
         gibbs(&mut species, *c, *g);
     }
-    let pool_limit = (recipe.reactions / 2).max(64);
-    for i in 0..recipe.reactions {
+    let pool_limit = recipe.reactions.max(64);
+    let mut seen: std::collections::HashSet<(Composition, Composition)> =
+        std::collections::HashSet::new();
+    let mut i = 0;
+    let mut attempts = 0usize;
+    while i < recipe.reactions && attempts < recipe.reactions.saturating_mul(50) + 1000 {
+        attempts += 1;
         let x = pool[rng.below(pool.len())];
         // Combine with a monomer, so that sums stay small and collide often.
         let (y, _) = monomers[rng.below(monomers.len())];
+        // Each pair once: the same reaction twice would be a duplicate.
+        let pair = if x <= y { (x, y) } else { (y, x) };
+        if !seen.insert(pair) {
+            continue;
+        }
         let z = add(&x, &y);
         let gx = species[&x];
         let gy = species[&y];
@@ -134,6 +144,7 @@ pub fn generate(recipe: &Recipe) -> Generated {
             ln_k.exp(),
             if mistake { "  # planted" } else { "" }
         );
+        i += 1;
     }
     let mut files = Vec::new();
     let mut top = String::from(

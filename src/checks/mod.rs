@@ -66,9 +66,37 @@ pub fn k_text(ln_k: f64) -> String {
     }
 }
 
+/// Phase timings on stderr when `STOIK_PROFILE` is set, for profiling
+/// large libraries.
+pub struct Phases {
+    on: bool,
+    at: std::cell::Cell<std::time::Instant>,
+}
+
+impl Phases {
+    pub fn start() -> Phases {
+        Phases {
+            on: std::env::var_os("STOIK_PROFILE").is_some(),
+            at: std::cell::Cell::new(std::time::Instant::now()),
+        }
+    }
+
+    pub fn mark(&self, what: &str) {
+        if self.on {
+            let now = std::time::Instant::now();
+            eprintln!(
+                "profile: {what}: {:.3} s",
+                (now - self.at.get()).as_secs_f64()
+            );
+            self.at.set(now);
+        }
+    }
+}
+
 /// Run every library-wide check.
 pub fn run(ws: &Workspace, lib: &Library, config: &Config) -> Vec<Diagnostic> {
     let mut out = Vec::new();
+    let prep = Phases::start();
     let checked: Vec<Checked> = lib
         .reactions
         .iter()
@@ -79,17 +107,22 @@ pub fn run(ws: &Workspace, lib: &Library, config: &Config) -> Vec<Diagnostic> {
             k: ReactionK::of(lib, reaction),
         })
         .collect();
+    prep.mark("K models");
+    let clock = Phases::start();
     for c in &checked {
         rates::check(lib, c, &mut out);
         if c.reaction.reversible() {
             consistency::check(ws, lib, c, config.tolerance, &mut out);
         }
     }
+    clock.mark("per-reaction checks");
     consistency::temperatures(ws, lib, &checked, &mut out);
     for m in &lib.mixtures {
         out.extend(crate::solve::mixture_diagnostics(lib, m));
     }
     pairs::check(ws, lib, &checked, config.tolerance, &mut out);
+    clock.mark("pairs");
     cycles::check(ws, lib, &checked, config.tolerance, &mut out);
+    clock.mark("cycles");
     out
 }

@@ -89,6 +89,7 @@ pub fn run(
         );
     }
     let progress = std::io::stderr().is_terminal() && files.len() > 20;
+    let clock = crate::checks::Phases::start();
     let mut ws = Workspace::new(&root);
     let total = files.len();
     for (i, f) in files.iter().enumerate() {
@@ -116,6 +117,7 @@ pub fn run(
     if progress {
         eprint!("\rchecking {total} files        \r");
     }
+    clock.mark("reading and parsing");
     let analysis = crate::analysis::analyze(ws, &config);
     let ws = &analysis.workspace;
     let mut summary = Summary {
