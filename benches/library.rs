@@ -26,7 +26,7 @@ fn library(reactions: usize) -> (PathBuf, Overlay, String) {
     (root, overlay, all)
 }
 
-fn analyse(root: &PathBuf, overlay: &Overlay) -> stoik::analysis::Analysis {
+fn analyse(root: &std::path::Path, overlay: &Overlay) -> stoik::analysis::Analysis {
     let mut ws = Workspace::new(root);
     let _ = ws.load(&root.join("library.stoik"), overlay);
     stoik::analysis::analyze(ws, &Config::default())
