@@ -356,13 +356,20 @@ pub fn solve_mixture(ws: &Workspace, lib: &Library, m: &Mixture) -> Option<Mixtu
             let extent = s.extents.get(i).copied().unwrap_or(0.0);
             let log10_k = r.ln_k / std::f64::consts::LN_10;
             let ln_q0 = initial_ln_q(&problem, r);
-            let direction = match ln_q0 {
-                Some(q) if (q - r.ln_k).abs() <= 1e-9 * r.ln_k.abs().max(1.0) => "none",
-                Some(q) if q < r.ln_k => "forward",
-                Some(_) => "reverse",
-                None if extent > 0.0 => "forward",
-                None if extent < 0.0 => "reverse",
-                None => "none",
+            // The extent says which way the reaction actually ran; coupled
+            // reactions can move even when their own Q started at K.
+            let total: f64 = problem
+                .species
+                .iter()
+                .map(|s| s.initial_mol)
+                .sum::<f64>()
+                .max(f64::MIN_POSITIVE);
+            let direction = if extent.abs() <= 1e-12 * total {
+                "none"
+            } else if extent > 0.0 {
+                "forward"
+            } else {
+                "reverse"
             };
             reactions_out.push(ReactionResult {
                 label: r.label.clone(),

@@ -156,12 +156,9 @@ fn calcium_carbonate_decomposes_to_p_co2_equal_to_k() {
     );
 }
 
-// FIXME(solver): stoik 0.1.0 gets this wrong: from 0.001 mol of CaCO3 it
-// reports 0.01323 mol of CaO and of CO2 (calcium and carbon created), says
-// the solve did not converge, and exits 1. Ignored until the solver handles a
-// solid that is used up; run with `cargo test -- --ignored` to see it.
+// A solid that is used up leaves the equilibrium: CaCO3 decomposes
+// completely and the carbon stays conserved (regression test).
 #[test]
-#[ignore = "the solver creates matter when a solid is used up (see FIXME)"]
 fn a_solid_that_is_used_up_leaves_the_equilibrium() {
     // 0.001 mol of CaCO3 in 10 L cannot reach p(CO2) = 0.110 bar (that needs
     // 0.0132 mol), so it decomposes completely: 0.001 mol of CaO and of CO2

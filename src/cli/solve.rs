@@ -122,10 +122,14 @@ fn human(r: &MixtureResult) -> String {
             };
             let _ = writeln!(
                 out,
-                "    {}: log K = {}, {q}, moves {}, extent {} mol",
+                "    {}: log K = {}, {q}, {}, extent {} mol",
                 x.label,
                 number(x.log10_k),
-                x.direction,
+                match x.direction {
+                    "forward" => "runs forward",
+                    "reverse" => "runs in reverse",
+                    _ => "does not move",
+                },
                 number(x.extent)
             );
         }
