@@ -155,7 +155,10 @@ impl BalanceFailure {
         let list = |v: &[usize]| v.iter().map(name).collect::<Vec<_>>().join(", ");
         match self {
             BalanceFailure::EmptySide { side } => {
-                format!("the {} side has no species to balance: add species to it", side.name())
+                format!(
+                    "the {} side has no species to balance: add species to it",
+                    side.name()
+                )
             }
             BalanceFailure::OneSided { z, side } => {
                 let symbol = elements::by_z(*z).map_or("?", |e| e.symbol);
@@ -173,7 +176,8 @@ impl BalanceFailure {
                 list(species)
             ),
             BalanceFailure::Charge => {
-                "the elements balance but the charge cannot: add electrons or check the ion charges".to_string()
+                "the elements balance but the charge cannot: add electrons or check the ion charges"
+                    .to_string()
             }
             BalanceFailure::NoBalance => {
                 "no coefficients balance this equation: check the formulas".to_string()
@@ -190,16 +194,22 @@ pub enum BalanceOutcome {
     Unique(Vec<BigInt>),
     /// Balances form a space of this dimension, so no coefficients are
     /// singled out (the equation combines independent reactions).
-    NotUnique { independent: usize },
+    NotUnique {
+        independent: usize,
+    },
     Impossible(BalanceFailure),
 }
 
 /// Balances `species`, of which the first `n_reactants` are on the left.
 pub fn balance(species: &[&Formula], n_reactants: usize) -> BalanceOutcome {
     let n_reactants = n_reactants.min(species.len());
-    let active: Vec<usize> = (0..species.len()).filter(|&i| in_balance(species[i])).collect();
+    let active: Vec<usize> = (0..species.len())
+        .filter(|&i| in_balance(species[i]))
+        .collect();
     for side in [Side::Left, Side::Right] {
-        let present = active.iter().any(|&i| (i < n_reactants) == (side == Side::Left));
+        let present = active
+            .iter()
+            .any(|&i| (i < n_reactants) == (side == Side::Left));
         if !present {
             return BalanceOutcome::Impossible(BalanceFailure::EmptySide { side });
         }
@@ -218,14 +228,28 @@ pub fn balance(species: &[&Formula], n_reactants: usize) -> BalanceOutcome {
                 .any(|&i| (i < n_reactants) == left && !species[i].count(z).is_zero())
         };
         match (on(true), on(false)) {
-            (true, false) => return BalanceOutcome::Impossible(BalanceFailure::OneSided { z, side: Side::Left }),
-            (false, true) => return BalanceOutcome::Impossible(BalanceFailure::OneSided { z, side: Side::Right }),
+            (true, false) => {
+                return BalanceOutcome::Impossible(BalanceFailure::OneSided {
+                    z,
+                    side: Side::Left,
+                });
+            }
+            (false, true) => {
+                return BalanceOutcome::Impossible(BalanceFailure::OneSided {
+                    z,
+                    side: Side::Right,
+                });
+            }
             _ => {}
         }
     }
     let column = |i: usize| -> Vec<BigRational> {
         let f = species[i];
-        let sign = if i < n_reactants { BigRational::one() } else { -BigRational::one() };
+        let sign = if i < n_reactants {
+            BigRational::one()
+        } else {
+            -BigRational::one()
+        };
         let mut col: Vec<BigRational> = zs.iter().map(|&z| &sign * big(&f.count(z))).collect();
         col.push(&sign * BigRational::from_integer(BigInt::from(f.charge)));
         col
@@ -247,13 +271,17 @@ pub fn balance(species: &[&Formula], n_reactants: usize) -> BalanceOutcome {
         }
         1 => {
             let v = integer_vector(&basis[0]);
-            let zero: Vec<usize> = (0..v.len()).filter(|&k| v[k].is_zero()).map(|k| active[k]).collect();
+            let zero: Vec<usize> = (0..v.len())
+                .filter(|&k| v[k].is_zero())
+                .map(|k| active[k])
+                .collect();
             if !zero.is_empty() {
                 return BalanceOutcome::Impossible(BalanceFailure::LeftOut { species: zero });
             }
             let negative: Vec<usize> = (0..v.len()).filter(|&k| v[k].is_negative()).collect();
             let positive = v.len() - negative.len();
-            let flip = negative.len() > positive || (negative.len() == positive && v[0].is_negative());
+            let flip =
+                negative.len() > positive || (negative.len() == positive && v[0].is_negative());
             let wrong: Vec<usize> = (0..v.len())
                 .filter(|&k| v[k].is_negative() != flip)
                 .map(|k| active[k])
@@ -319,7 +347,10 @@ pub(crate) fn nullspace(mut m: Vec<Vec<BigRational>>) -> Vec<Vec<BigRational>> {
 /// factor removed, sign kept.
 fn integer_vector(v: &[BigRational]) -> Vec<BigInt> {
     let lcm = v.iter().fold(BigInt::one(), |acc, x| acc.lcm(x.denom()));
-    let ints: Vec<BigInt> = v.iter().map(|x| (x * BigRational::from_integer(lcm.clone())).to_integer()).collect();
+    let ints: Vec<BigInt> = v
+        .iter()
+        .map(|x| (x * BigRational::from_integer(lcm.clone())).to_integer())
+        .collect();
     let gcd = ints.iter().fold(BigInt::zero(), |acc, x| acc.gcd(x));
     if gcd.is_zero() {
         return ints;
@@ -365,7 +396,10 @@ mod tests {
     fn simple_and_redox() {
         // Textbook equations (common practice).
         assert_eq!(solve(&["Fe", "O2"], &["Fe2O3"]), unique(&[4, 3, 2]));
-        assert_eq!(solve(&["C3H8", "O2"], &["CO2", "H2O"]), unique(&[1, 5, 3, 4]));
+        assert_eq!(
+            solve(&["C3H8", "O2"], &["CO2", "H2O"]),
+            unique(&[1, 5, 3, 4])
+        );
         assert_eq!(
             solve(&["MnO4-", "H+", "e-"], &["Mn2+", "H2O"]),
             unique(&[1, 8, 5, 1, 4])
@@ -375,8 +409,14 @@ mod tests {
             unique(&[1, 6, 14, 2, 6, 7])
         );
         // M and hv take coefficient 1 and stay out of the balance.
-        assert_eq!(solve(&["H", "O2", "M"], &["HO2", "M"]), unique(&[1, 1, 1, 1, 1]));
-        assert_eq!(solve(&["O", "O2", "M"], &["O3", "M"]), BalanceOutcome::NotUnique { independent: 2 });
+        assert_eq!(
+            solve(&["H", "O2", "M"], &["HO2", "M"]),
+            unique(&[1, 1, 1, 1, 1])
+        );
+        assert_eq!(
+            solve(&["O", "O2", "M"], &["O3", "M"]),
+            BalanceOutcome::NotUnique { independent: 2 }
+        );
         assert_eq!(solve(&["NO2", "hv"], &["NO", "O"]), unique(&[1, 1, 1, 1]));
     }
 
@@ -384,11 +424,17 @@ mod tests {
     fn failures_name_the_cause() {
         assert_eq!(
             solve(&["H2", "O2", "N2"], &["H2O"]),
-            BalanceOutcome::Impossible(BalanceFailure::OneSided { z: 7, side: Side::Left })
+            BalanceOutcome::Impossible(BalanceFailure::OneSided {
+                z: 7,
+                side: Side::Left
+            })
         );
         assert_eq!(
             solve(&["H2O"], &["H2", "O2", "C"]),
-            BalanceOutcome::Impossible(BalanceFailure::OneSided { z: 6, side: Side::Right })
+            BalanceOutcome::Impossible(BalanceFailure::OneSided {
+                z: 6,
+                side: Side::Right
+            })
         );
         // O2 written as a reactant of the decomposition of H2O2.
         assert_eq!(
@@ -417,7 +463,10 @@ mod tests {
             BalanceOutcome::NotUnique { independent: 3 }
         );
         let msg = BalanceFailure::WrongSide { species: vec![1] }.message(&["H2O2", "O2", "H2O"]);
-        assert_eq!(msg, "a balance exists only with `O2` moved to the other side of the arrow");
+        assert_eq!(
+            msg,
+            "a balance exists only with `O2` moved to the other side of the arrow"
+        );
     }
 
     #[test]
@@ -461,7 +510,11 @@ mod tests {
         assert_eq!(r.charge_left, BigRational::from_integer(BigInt::from(2)));
         let terms2 = vec![(c(-1), &fs[0]), (Ratio::new(-1, 2), &fs[1]), (c(1), &fs[3])];
         let r = residuals(&terms2);
-        let h = r.elements.iter().find(|e| e.z == 1).map(ElementTotals::excess);
+        let h = r
+            .elements
+            .iter()
+            .find(|e| e.z == 1)
+            .map(ElementTotals::excess);
         assert_eq!(h, Some(BigRational::new(BigInt::from(-1), BigInt::from(2))));
         assert!(!r.is_balanced());
         // Mn balances (1 and 1); H and O do not.

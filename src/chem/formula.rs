@@ -206,9 +206,7 @@ impl std::error::Error for FormulaError {}
 pub fn looks_like_formula(text: &str) -> bool {
     match text.as_bytes().first() {
         Some(b) if b.is_ascii_uppercase() || *b == b'(' || *b == b'[' => true,
-        _ => {
-            electron_phase(text).is_some() || text == "hv" || text == "hν"
-        }
+        _ => electron_phase(text).is_some() || text == "hv" || text == "hν",
     }
 }
 
@@ -515,7 +513,8 @@ impl<'a> Parser<'a> {
         let Some(e) = elements::by_symbol(symbol) else {
             return Err(self.unknown_element(start..end));
         };
-        self.prev_single = (end == start + 1).then(|| (start, symbol.chars().next().unwrap_or('?')));
+        self.prev_single =
+            (end == start + 1).then(|| (start, symbol.chars().next().unwrap_or('?')));
         self.atoms.push((e.z, Ratio::one()));
         self.last = Last::Unit {
             at: self.atoms.len() - 1,
@@ -559,8 +558,12 @@ impl<'a> Parser<'a> {
             Some(best) if best.eq_ignore_ascii_case(&written) => format!(
                 "unknown element `{written}`: write `{best}` (element symbols are case-sensitive)"
             ),
-            Some(best) => format!("unknown element `{written}`: write a known symbol such as `{best}`"),
-            None => format!("unknown element `{written}`: write an element symbol from the periodic table"),
+            Some(best) => {
+                format!("unknown element `{written}`: write a known symbol such as `{best}`")
+            }
+            None => format!(
+                "unknown element `{written}`: write an element symbol from the periodic table"
+            ),
         };
         FormulaError {
             span,
@@ -637,7 +640,9 @@ impl<'a> Parser<'a> {
             } else {
                 break;
             };
-            value = value.and_then(|v| v.checked_mul(10)).and_then(|v| v.checked_add(d));
+            value = value
+                .and_then(|v| v.checked_mul(10))
+                .and_then(|v| v.checked_add(d));
             self.pos += c.len_utf8();
         }
         let span = start..self.pos;
@@ -678,7 +683,8 @@ impl<'a> Parser<'a> {
         if value == 0 {
             return Err(self.syntax(
                 span,
-                "a count of zero: remove the element or group, or write a positive count".to_string(),
+                "a count of zero: remove the element or group, or write a positive count"
+                    .to_string(),
             ));
         }
         let factor = Ratio::from_integer(value);
@@ -729,7 +735,11 @@ impl<'a> Parser<'a> {
         if self.peek().is_some_and(|c| c.is_ascii_digit()) {
             let (whole, _) = self.digits(true)?;
             let mut mult = Ratio::from_integer(whole);
-            if self.peek() == Some('.') && self.peek_at(self.pos + 1).is_some_and(|c| c.is_ascii_digit()) {
+            if self.peek() == Some('.')
+                && self
+                    .peek_at(self.pos + 1)
+                    .is_some_and(|c| c.is_ascii_digit())
+            {
                 self.pos += 1;
                 let frac_start = self.pos;
                 let (frac, _) = self.digits(true)?;
@@ -756,14 +766,22 @@ impl<'a> Parser<'a> {
             if mult.is_zero() {
                 return Err(self.syntax(
                     start..self.pos,
-                    "a multiplier of zero: remove the part or write a positive multiplier".to_string(),
+                    "a multiplier of zero: remove the part or write a positive multiplier"
+                        .to_string(),
                 ));
             }
             self.part_mult = mult;
             self.part_mult_span = start..self.pos;
         }
-        if self.peek().is_none_or(|c| !(c.is_ascii_uppercase() || c == '(' || c == '[')) {
-            let span = if self.pos > start { start..self.pos } else { dot };
+        if self
+            .peek()
+            .is_none_or(|c| !(c.is_ascii_uppercase() || c == '(' || c == '['))
+        {
+            let span = if self.pos > start {
+                start..self.pos
+            } else {
+                dot
+            };
             return Err(self.syntax(
                 span,
                 "a hydrate dot must be followed by a formula, as in `CuSO4·5H2O`".to_string(),
@@ -809,7 +827,8 @@ impl<'a> Parser<'a> {
                     let span = start..self.pos;
                     return Err(self.syntax(
                         span,
-                        "after `^` write the charge as magnitude then sign, as in `^2+` or `^-`".to_string(),
+                        "after `^` write the charge as magnitude then sign, as in `^2+` or `^-`"
+                            .to_string(),
                     ));
                 }
             };
@@ -819,12 +838,19 @@ impl<'a> Parser<'a> {
                 let sign_text = if sign > 0 { "+" } else { "-" };
                 let e = self.syntax(
                     start..s.end,
-                    format!("after `^` the magnitude comes before the sign: write `^{v}{sign_text}`"),
+                    format!(
+                        "after `^` the magnitude comes before the sign: write `^{v}{sign_text}`"
+                    ),
                 );
-                return Err(self.with_fix(e, self.replace(&(start..s.end), &format!("^{v}{sign_text}"))));
+                return Err(self.with_fix(
+                    e,
+                    self.replace(&(start..s.end), &format!("^{v}{sign_text}")),
+                ));
             }
             if mag == Some(0) {
-                return Err(self.syntax(mag_span, "a charge of zero: remove the charge".to_string()));
+                return Err(
+                    self.syntax(mag_span, "a charge of zero: remove the charge".to_string())
+                );
             }
             self.charge = sign * mag.unwrap_or(1);
             return Ok(());
@@ -842,7 +868,10 @@ impl<'a> Parser<'a> {
                     start..self.pos,
                     format!("repeated `{c}` signs: write the charge as `^{repeats}{c}`"),
                 );
-                return Err(self.with_fix(e, self.replace(&(start..self.pos), &format!("^{repeats}{c}"))));
+                return Err(self.with_fix(
+                    e,
+                    self.replace(&(start..self.pos), &format!("^{repeats}{c}")),
+                ));
             }
             if self.peek().is_some_and(|c| c.is_ascii_digit()) {
                 let (v, s) = self.digits(true)?;
@@ -880,7 +909,10 @@ impl<'a> Parser<'a> {
                 let span = start..self.pos + 1;
                 let e = self.syntax(
                     span.clone(),
-                    format!("superscript digits need a superscript sign: write `{}` or `{fixed}`", if s == '+' { '⁺' } else { '⁻' }),
+                    format!(
+                        "superscript digits need a superscript sign: write `{}` or `{fixed}`",
+                        if s == '+' { '⁺' } else { '⁻' }
+                    ),
                 );
                 return Err(self.with_fix(e, self.replace(&span, &fixed)));
             }
@@ -904,10 +936,16 @@ impl<'a> Parser<'a> {
                 start..self.pos,
                 format!("the charge magnitude comes before the sign: write `{digits}{sign_char}`"),
             );
-            return Err(self.with_fix(e, self.replace(&(start..self.pos), &format!("{digits}{sign_char}"))));
+            return Err(self.with_fix(
+                e,
+                self.replace(&(start..self.pos), &format!("{digits}{sign_char}")),
+            ));
         }
         if mag == Some(0) {
-            return Err(self.syntax(start..self.pos, "a charge of zero: remove the charge".to_string()));
+            return Err(self.syntax(
+                start..self.pos,
+                "a charge of zero: remove the charge".to_string(),
+            ));
         }
         self.charge = sign * mag.unwrap_or(1);
         Ok(())
@@ -922,7 +960,8 @@ impl<'a> Parser<'a> {
             return;
         };
         let written = &self.text[..self.pos];
-        let monatomic = self.symbols == 1 && !self.any_group && !self.any_dot && self.atoms.len() == 1;
+        let monatomic =
+            self.symbols == 1 && !self.any_group && !self.any_dot && self.atoms.len() == 1;
         if monatomic {
             let (z, _) = self.atoms[0];
             self.atoms[0].1 = Ratio::one();
@@ -983,7 +1022,11 @@ impl<'a> Parser<'a> {
                 start..self.pos,
                 "the phase tag must come last, after the formula and its charge".to_string(),
             );
-            let fixed = format!("{}{rest}{}", &self.text[..start], &self.text[start..self.pos]);
+            let fixed = format!(
+                "{}{rest}{}",
+                &self.text[..start],
+                &self.text[start..self.pos]
+            );
             return Err(self.with_fix(e, fixed));
         }
         self.phase = Some(phase);
@@ -1001,7 +1044,8 @@ impl<'a> Parser<'a> {
                         err(
                             0..self.text.len(),
                             FormulaErrorKind::CountOverflow,
-                            "count too large: the total count of an element must fit in 64 bits".to_string(),
+                            "count too large: the total count of an element must fit in 64 bits"
+                                .to_string(),
                         )
                     })?;
                 }
@@ -1074,7 +1118,13 @@ mod tests {
     fn comp(f: &Formula) -> Vec<(&'static str, i64, i64)> {
         f.composition
             .iter()
-            .map(|(z, n)| (elements::by_z(*z).map_or("?", |e| e.symbol), *n.numer(), *n.denom()))
+            .map(|(z, n)| {
+                (
+                    elements::by_z(*z).map_or("?", |e| e.symbol),
+                    *n.numer(),
+                    *n.denom(),
+                )
+            })
             .collect()
     }
 
@@ -1096,17 +1146,26 @@ mod tests {
 
     #[test]
     fn nested_groups() {
-        assert_eq!(comp(&ok("Ca3(PO4)2")), ints(&[("Ca", 3), ("P", 2), ("O", 8)]));
+        assert_eq!(
+            comp(&ok("Ca3(PO4)2")),
+            ints(&[("Ca", 3), ("P", 2), ("O", 8)])
+        );
         assert_eq!(
             comp(&ok("K4[Fe(CN)6]")),
             ints(&[("K", 4), ("Fe", 1), ("C", 6), ("N", 6)])
         );
-        assert_eq!(comp(&ok("(NH4)2SO4")), ints(&[("N", 2), ("H", 8), ("S", 1), ("O", 4)]));
+        assert_eq!(
+            comp(&ok("(NH4)2SO4")),
+            ints(&[("N", 2), ("H", 8), ("S", 1), ("O", 4)])
+        );
         assert_eq!(
             comp(&ok("[Co(NH3)6]Cl3")),
             ints(&[("Co", 1), ("N", 6), ("H", 18), ("Cl", 3)])
         );
-        assert_eq!(comp(&ok("((CH3)3C)2O")), ints(&[("C", 8), ("H", 18), ("O", 1)]));
+        assert_eq!(
+            comp(&ok("((CH3)3C)2O")),
+            ints(&[("C", 8), ("H", 18), ("O", 1)])
+        );
     }
 
     #[test]
@@ -1119,12 +1178,18 @@ mod tests {
             comp(&half),
             vec![("H", 1, 1), ("O", 9, 2), ("S", 1, 1), ("Ca", 1, 1)]
         );
-        assert_eq!(comp(&ok("Na2CO3·H2O")), ints(&[("Na", 2), ("C", 1), ("O", 4), ("H", 2)]));
+        assert_eq!(
+            comp(&ok("Na2CO3·H2O")),
+            ints(&[("Na", 2), ("C", 1), ("O", 4), ("H", 2)])
+        );
         assert_eq!(
             comp(&ok("AlCl3·6H2O·2NH3")),
             ints(&[("Al", 1), ("Cl", 3), ("O", 6), ("H", 18), ("N", 2)])
         );
-        assert_eq!(comp(&ok("CaSO4·1.25H2O")), vec![("H", 5, 2), ("O", 21, 4), ("S", 1, 1), ("Ca", 1, 1)]);
+        assert_eq!(
+            comp(&ok("CaSO4·1.25H2O")),
+            vec![("H", 5, 2), ("O", 21, 4), ("S", 1, 1), ("Ca", 1, 1)]
+        );
     }
 
     #[test]
@@ -1148,9 +1213,15 @@ mod tests {
         assert_eq!(ok("SO4-2").charge, -2);
         assert_eq!(comp(&ok("SO4-2")), ints(&[("S", 1), ("O", 4)]));
         let ammonium = ok("NH4+");
-        assert_eq!((ammonium.charge, comp(&ammonium)), (1, ints(&[("N", 1), ("H", 4)])));
+        assert_eq!(
+            (ammonium.charge, comp(&ammonium)),
+            (1, ints(&[("N", 1), ("H", 4)]))
+        );
         let nitrate = ok("NO3-");
-        assert_eq!((nitrate.charge, comp(&nitrate)), (-1, ints(&[("N", 1), ("O", 3)])));
+        assert_eq!(
+            (nitrate.charge, comp(&nitrate)),
+            (-1, ints(&[("N", 1), ("O", 3)]))
+        );
         assert_eq!(ok("Cl-").charge, -1);
         assert_eq!(ok("Na+").charge, 1);
         assert!(ok("NH4+").reading_note.is_none());
@@ -1190,7 +1261,11 @@ mod tests {
         assert!(note.contains("`SO4^2-`"), "{note}");
         let g = ok("[Fe(CN)6]4-");
         assert_eq!(g.charge, -1);
-        assert!(g.reading_note.unwrap_or_default().contains("`[Fe(CN)6]^4-`"));
+        assert!(
+            g.reading_note
+                .unwrap_or_default()
+                .contains("`[Fe(CN)6]^4-`")
+        );
         let h = ok("C2H10-");
         assert!(h.reading_note.unwrap_or_default().contains("`C2H10^-`"));
     }
@@ -1200,10 +1275,19 @@ mod tests {
         let cu = ok("Cu²⁺");
         assert_eq!((cu.charge, comp(&cu)), (2, ints(&[("Cu", 1)])));
         let sulfate = ok("SO₄²⁻");
-        assert_eq!((sulfate.charge, comp(&sulfate)), (-2, ints(&[("S", 1), ("O", 4)])));
+        assert_eq!(
+            (sulfate.charge, comp(&sulfate)),
+            (-2, ints(&[("S", 1), ("O", 4)]))
+        );
         let ammonium = ok("NH₄⁺");
-        assert_eq!((ammonium.charge, comp(&ammonium)), (1, ints(&[("N", 1), ("H", 4)])));
-        assert_eq!(comp(&ok("C₁₂H₂₂O₁₁")), ints(&[("C", 12), ("H", 22), ("O", 11)]));
+        assert_eq!(
+            (ammonium.charge, comp(&ammonium)),
+            (1, ints(&[("N", 1), ("H", 4)]))
+        );
+        assert_eq!(
+            comp(&ok("C₁₂H₂₂O₁₁")),
+            ints(&[("C", 12), ("H", 22), ("O", 11)])
+        );
         assert_eq!(ok("PO₄³⁻").charge, -3);
         assert_eq!(ok("Fe¹⁰⁺").charge, 10);
         assert!(ok("SO₄²⁻").reading_note.is_none());
@@ -1257,7 +1341,10 @@ mod tests {
         assert!(e.message.contains("`Cl`"), "{}", e.message);
         assert!(!e.message.ends_with('.'));
         let e = bad("NaCL");
-        assert_eq!((e.span.clone(), e.suggestions.first().cloned()), (2..4, Some("NaCl".to_string())));
+        assert_eq!(
+            (e.span.clone(), e.suggestions.first().cloned()),
+            (2..4, Some("NaCl".to_string()))
+        );
         let e = bad("Xx2O");
         assert_eq!(e.span, 0..2);
         assert!(e.suggestions.contains(&"Xe2O".to_string()));
@@ -1279,7 +1366,10 @@ mod tests {
         assert_eq!(bad("2H2O").span, 0..1);
         assert_eq!(bad("H2O!").span, 3..4);
         let e = bad("CuSO4.5H2O");
-        assert_eq!((e.span.clone(), e.suggestions.clone()), (5..6, vec!["CuSO4·5H2O".to_string()]));
+        assert_eq!(
+            (e.span.clone(), e.suggestions.clone()),
+            (5..6, vec!["CuSO4·5H2O".to_string()])
+        );
         assert_eq!(bad("CuSO4·").span, 5..7);
         assert_eq!(bad("·H2O").span, 0..2);
         assert_eq!(bad("H0").span, 1..2);
@@ -1290,12 +1380,21 @@ mod tests {
         let e = bad("Ca++");
         assert_eq!(e.suggestions, vec!["Ca^2+".to_string()]);
         let e = bad("Fe(aq)^3+");
-        assert_eq!((e.span.clone(), e.suggestions.clone()), (2..6, vec!["Fe^3+(aq)".to_string()]));
+        assert_eq!(
+            (e.span.clone(), e.suggestions.clone()),
+            (2..6, vec!["Fe^3+(aq)".to_string()])
+        );
         let e = bad("H2O(x)");
         assert_eq!(e.span, 3..6);
         let e = bad("h2o");
-        assert_eq!((e.span.clone(), e.suggestions.clone()), (0..1, vec!["H2O".to_string()]));
-        assert_eq!(bad("co2").suggestions, vec!["CO2".to_string(), "Co2".to_string()]);
+        assert_eq!(
+            (e.span.clone(), e.suggestions.clone()),
+            (0..1, vec!["H2O".to_string()])
+        );
+        assert_eq!(
+            bad("co2").suggestions,
+            vec!["CO2".to_string(), "Co2".to_string()]
+        );
         assert_eq!(bad("^2+").span, 0..1);
         assert_eq!(bad("SO4²-").suggestions, vec!["SO4^2-".to_string()]);
         assert_eq!(bad("Cl−").suggestions, vec!["Cl-".to_string()]);
@@ -1310,9 +1409,18 @@ mod tests {
         assert_eq!((e.kind, e.span), (FormulaErrorKind::CountOverflow, 1..21));
         let e = bad("((H3037000500)3037000500)2");
         assert_eq!(e.kind, FormulaErrorKind::CountOverflow);
-        assert_eq!(bad("Fe^99999999999999999999+").kind, FormulaErrorKind::CountOverflow);
-        assert_eq!(bad("H9223372036854775807H").kind, FormulaErrorKind::CountOverflow);
-        assert_eq!(bad("Fe⁹⁹⁹⁹⁹⁹⁹⁹⁹⁹⁹⁹⁹⁹⁹⁹⁹⁹⁹⁹⁺").kind, FormulaErrorKind::CountOverflow);
+        assert_eq!(
+            bad("Fe^99999999999999999999+").kind,
+            FormulaErrorKind::CountOverflow
+        );
+        assert_eq!(
+            bad("H9223372036854775807H").kind,
+            FormulaErrorKind::CountOverflow
+        );
+        assert_eq!(
+            bad("Fe⁹⁹⁹⁹⁹⁹⁹⁹⁹⁹⁹⁹⁹⁹⁹⁹⁹⁹⁹⁹⁺").kind,
+            FormulaErrorKind::CountOverflow
+        );
     }
 
     #[test]
@@ -1357,8 +1465,14 @@ mod tests {
 
     fn check_error_span(s: &str) {
         if let Err(e) = parse_formula(s) {
-            assert!(e.span.start <= e.span.end && e.span.end <= s.len(), "{s:?} {e:?}");
-            assert!(s.is_char_boundary(e.span.start) && s.is_char_boundary(e.span.end), "{s:?} {e:?}");
+            assert!(
+                e.span.start <= e.span.end && e.span.end <= s.len(),
+                "{s:?} {e:?}"
+            );
+            assert!(
+                s.is_char_boundary(e.span.start) && s.is_char_boundary(e.span.end),
+                "{s:?} {e:?}"
+            );
             assert!(!e.message.ends_with('.'));
             for fixed in &e.suggestions {
                 assert!(parse_formula(fixed).is_ok(), "{s:?} suggests {fixed:?}");

@@ -9,6 +9,10 @@ pub mod cycles;
 pub mod elements;
 pub mod formula;
 
-pub use balance::{BalanceFailure, BalanceOutcome, ElementTotals, Residual, Side, balance, residuals};
+pub use balance::{
+    BalanceFailure, BalanceOutcome, ElementTotals, Residual, Side, balance, residuals,
+};
 pub use elements::Element;
-pub use formula::{Formula, FormulaError, FormulaErrorKind, Phase, SpeciesKind, looks_like_formula, parse_formula};
+pub use formula::{
+    Formula, FormulaError, FormulaErrorKind, Phase, SpeciesKind, looks_like_formula, parse_formula,
+};
