@@ -52,6 +52,7 @@ pub fn hover(snap: &Snapshot, p: lsp::Position, encoding: Encoding) -> Option<ls
             }
         }
     }
+    let had_item = !parts.is_empty();
     for d in snap
         .analysis
         .diagnostics
@@ -59,13 +60,20 @@ pub fn hover(snap: &Snapshot, p: lsp::Position, encoding: Encoding) -> Option<ls
         .filter(|d| d.file == snap.file && d.span.start <= offset && offset <= d.span.end)
     {
         if let Some(rule) = crate::rules::lookup(d.rule) {
-            parts.push(format!(
-                "**{}** ({}): {}\n\n{}",
+            // Beside another item the rule gets one line; alone, its doc.
+            let mut t = format!(
+                "**{}** ({}): {}",
                 rule.id,
                 d.severity.as_str(),
-                rule.summary,
-                rule.doc
-            ));
+                rule.summary
+            );
+            if had_item {
+                t.push_str(&format!(" (`stoik explain {}`)", rule.id));
+            } else {
+                t.push_str("\n\n");
+                t.push_str(rule.doc);
+            }
+            parts.push(t);
         }
     }
     if parts.is_empty() {
