@@ -137,20 +137,29 @@ fn formula_lines(f: &crate::chem::formula::Formula) -> String {
             lines.push("photon: no elements, no charge, not part of K".to_string())
         }
         SpeciesKind::Compound => {
-            let comp: Vec<String> = f
+            // Hill order: carbon, hydrogen, then the rest alphabetically
+            // (alphabetically throughout without carbon).
+            let mut parts: Vec<(&str, String)> = f
                 .composition
                 .iter()
                 .map(|(z, n)| {
                     let sym = crate::chem::elements::by_z(*z).map_or("?", |e| e.symbol);
-                    format!("{sym} {}", chemistry::ratio_text(n))
+                    (sym, chemistry::ratio_text(n))
                 })
                 .collect();
+            let carbon = parts.iter().any(|(s, _)| *s == "C");
+            parts.sort_by_key(|(s, _)| match (carbon, *s) {
+                (true, "C") => (0, *s),
+                (true, "H") => (1, *s),
+                _ => (2, *s),
+            });
+            let comp: Vec<String> = parts.iter().map(|(s, n)| format!("{s} {n}")).collect();
             lines.push(format!(
                 "composition: {} (Hill: `{}`)",
                 comp.join(", "),
                 f.hill()
             ));
-            lines.push(format!("molar mass: {:.4} g/mol", f.molar_mass()));
+            lines.push(format!("molar mass: {:.3} g/mol", f.molar_mass()));
         }
     }
     lines.push(format!(

@@ -27,10 +27,7 @@ async fn read_frames(mut read: ReadHalf<DuplexStream>, tx: mpsc::UnboundedSender
     let mut chunk = [0u8; 8192];
     loop {
         // Parse every complete frame in the buffer.
-        loop {
-            let Some(head_end) = buf.windows(4).position(|w| w == b"\r\n\r\n") else {
-                break;
-            };
+        while let Some(head_end) = buf.windows(4).position(|w| w == b"\r\n\r\n") {
             let head = String::from_utf8_lossy(&buf[..head_end]).to_string();
             let len: usize = head
                 .lines()
