@@ -55,24 +55,21 @@ pub fn collect(ws: &Workspace) -> Suppressions {
             let Some((file_wide, rules)) = parse_comment(text) else {
                 continue;
             };
+            // Statements are in line order, so the one a comment belongs to
+            // is found by binary search.
+            let next = statements.partition_point(|s| s.line <= c.line);
             let lines = if file_wide {
                 None
             } else if c.own_line {
                 // The statement that starts on the next line with code.
                 statements
-                    .iter()
-                    .find(|s| s.line > c.line)
-                    .filter(|s| {
-                        !statements
-                            .iter()
-                            .any(|o| o.line > c.line && o.line < s.line)
-                    })
+                    .get(next)
                     .map(|s| (s.line, s.last_line))
                     .or(Some((c.line, c.line)))
             } else {
-                statements
-                    .iter()
-                    .find(|s| s.line <= c.line && c.line <= s.last_line)
+                next.checked_sub(1)
+                    .and_then(|i| statements.get(i))
+                    .filter(|s| s.line <= c.line && c.line <= s.last_line)
                     .map(|s| (s.line, s.last_line))
                     .or(Some((c.line, c.line)))
             };

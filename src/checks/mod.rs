@@ -1,13 +1,95 @@
-//! Library-wide checks that need more than one statement: the
-//! thermodynamic consistency of K across reactions, species data and
-//! temperatures.
+//! Library-wide checks: units of constants, the thermodynamic consistency
+//! of K within a reaction, between reactions (reverse, multiple, cycle) and
+//! across temperatures.
+//!
+//! Reactions that failed element or charge balance, or whose species could
+//! not be read, take part in none of these checks, so one error does not
+//! cascade into a dozen warnings.
+
+mod consistency;
+mod cycles;
+mod pairs;
+mod rates;
 
 use crate::config::Config;
 use crate::diagnostic::Diagnostic;
 use crate::model::Library;
+use crate::reaction_k::ReactionK;
 use crate::workspace::Workspace;
 
+/// One reaction prepared for checking.
+pub(crate) struct Checked<'l> {
+    pub reaction: &'l crate::model::Reaction,
+    pub k: ReactionK,
+}
+
+/// The tolerance on ln K around `reference` for a relative tolerance.
+pub(crate) fn tolerance(reference: f64, rel: f64) -> f64 {
+    rel * reference
+        .abs()
+        .max(crate::thermo::likely_cause::LN_K_SCALE_FLOOR)
+}
+
+/// A number for messages: 4 significant figures, scientific when large.
+pub fn number(x: f64) -> String {
+    if x == 0.0 {
+        return "0".into();
+    }
+    let a = x.abs();
+    if (1e-3..1e5).contains(&a) {
+        let digits = (3 - a.log10().floor() as i32).max(0) as usize;
+        let s = format!("{x:.digits$}");
+        if s.contains('.') {
+            s.trim_end_matches('0').trim_end_matches('.').to_string()
+        } else {
+            s
+        }
+    } else {
+        format!("{x:.3e}")
+    }
+}
+
+/// A temperature for messages: up to two decimals (`298.15`, `700`).
+pub fn temperature(t: f64) -> String {
+    let s = format!("{t:.2}");
+    s.trim_end_matches('0').trim_end_matches('.').to_string()
+}
+
+/// K from ln K for messages, without overflowing.
+pub fn k_text(ln_k: f64) -> String {
+    let log10 = ln_k / std::f64::consts::LN_10;
+    if log10.abs() < 300.0 {
+        number(ln_k.exp())
+    } else {
+        let e = log10.floor();
+        format!("{:.3}e{}", 10f64.powf(log10 - e), e as i64)
+    }
+}
+
 /// Run every library-wide check.
-pub fn run(_ws: &Workspace, _lib: &Library, _config: &Config) -> Vec<Diagnostic> {
-    Vec::new()
+pub fn run(ws: &Workspace, lib: &Library, config: &Config) -> Vec<Diagnostic> {
+    let mut out = Vec::new();
+    let checked: Vec<Checked> = lib
+        .reactions
+        .iter()
+        .enumerate()
+        .filter(|(_, r)| r.complete && r.balanced)
+        .map(|(_, reaction)| Checked {
+            reaction,
+            k: ReactionK::of(lib, reaction),
+        })
+        .collect();
+    for c in &checked {
+        rates::check(lib, c, &mut out);
+        if c.reaction.reversible() {
+            consistency::check(ws, lib, c, config.tolerance, &mut out);
+        }
+    }
+    consistency::temperatures(ws, lib, &checked, &mut out);
+    for m in &lib.mixtures {
+        out.extend(crate::solve::mixture_diagnostics(lib, m));
+    }
+    pairs::check(ws, lib, &checked, config.tolerance, &mut out);
+    cycles::check(ws, lib, &checked, config.tolerance, &mut out);
+    out
 }

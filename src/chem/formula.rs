@@ -20,10 +20,10 @@ use super::elements::{self, Element};
 /// How deeply `()` and `[]` groups may nest before the parser refuses.
 pub const MAX_DEPTH: usize = 32;
 
-/// Molar mass of the electron in g/mol: CODATA 2018 recommended value
-/// (5.48579909065e-4 g/mol), checked against scipy.constants in
-/// `tests/chem_reference.rs`.
-pub const ELECTRON_MOLAR_MASS: f64 = 5.485_799_090_65e-4;
+/// Molar mass of the electron in g/mol: the CODATA 2022 recommended value
+/// 5.4857990962e-4 g/mol as scipy.constants gives it (checked in
+/// `tests/chem_reference.rs`).
+pub const ELECTRON_MOLAR_MASS: f64 = 5.485_799_096_2e-4;
 
 /// Elements whose homonuclear diatomic ions are common enough that the
 /// monatomic-ion shorthand (`O2-` read as oxide) deserves a note.

@@ -38,6 +38,14 @@ pub fn run(equation: &str, format: DataFormat) -> i32 {
             }
         }
     }
+    let limit = crate::model::lower::MAX_BALANCE_SPECIES;
+    if formulas.len() > limit {
+        eprintln!(
+            "error: the equation has {} species; stoik balances at most {limit}",
+            formulas.len()
+        );
+        return EXIT_USAGE;
+    }
     let refs: Vec<&Formula> = formulas.iter().collect();
     let arrow = &equation[eq.arrow.span.range()];
     let outcome = balance(&refs, eq.left.len());
@@ -61,7 +69,7 @@ pub fn run(equation: &str, format: DataFormat) -> i32 {
             let right: Vec<String> = (n..names.len()).map(term).collect();
             let text = format!("{} {arrow} {}", left.join(" + "), right.join(" + "));
             match format {
-                DataFormat::Human => println!("{text}"),
+                DataFormat::Human => outln!("{text}"),
                 DataFormat::Json => {
                     let numbers: Vec<serde_json::Value> = coefs
                         .iter()
@@ -70,10 +78,10 @@ pub fn run(equation: &str, format: DataFormat) -> i32 {
                             Err(_) => json!(c.to_string()),
                         })
                         .collect();
-                    println!(
-                        "{}",
+                    super::emit(&format!(
+                        "{}\n",
                         json!({ "balanced": text, "coefficients": numbers, "unique": true })
-                    );
+                    ));
                 }
             }
             EXIT_OK
@@ -101,8 +109,8 @@ pub fn run(equation: &str, format: DataFormat) -> i32 {
 
 fn report_failure(format: DataFormat, message: &str, independent: Option<usize>) {
     match format {
-        DataFormat::Human => println!("{message}"),
-        DataFormat::Json => println!(
+        DataFormat::Human => outln!("{message}"),
+        DataFormat::Json => outln!(
             "{}",
             json!({
                 "balanced": null,

@@ -6,7 +6,7 @@ use crate::rules::{RULES, lookup, suggest};
 pub fn run(rule: Option<&str>) -> i32 {
     let Some(id) = rule else {
         for r in RULES {
-            println!(
+            outln!(
                 "{:<20} {:<8} {}",
                 r.id,
                 r.default_severity.as_str(),
@@ -17,13 +17,13 @@ pub fn run(rule: Option<&str>) -> i32 {
     };
     match lookup(id) {
         Some(r) => {
-            println!(
+            outln!(
                 "{} ({} by default): {}\n",
                 r.id,
                 r.default_severity.as_str(),
                 r.summary
             );
-            println!("{}", r.doc);
+            super::emit(&format!("{}\n", r.doc));
             EXIT_OK
         }
         None => {

@@ -3,6 +3,13 @@
 //! Commands call the analysis core and render its values; none of them
 //! computes chemistry of its own.
 
+/// `println!` that survives a closed pipe.
+macro_rules! outln {
+    ($($t:tt)*) => {
+        $crate::cli::emit(&format!("{}\n", format_args!($($t)*)))
+    };
+}
+
 mod balance;
 mod check;
 mod explain;
@@ -10,6 +17,8 @@ mod fmt;
 pub mod render_human;
 pub mod render_json;
 pub mod render_sarif;
+mod report;
+mod solve;
 
 use clap::{Parser, Subcommand, ValueEnum};
 use std::io::IsTerminal;
@@ -73,6 +82,24 @@ enum Command {
         #[arg(long, value_enum, default_value = "human")]
         format: DataFormat,
     },
+    /// Equilibrium composition of each mixture (or one)
+    Solve {
+        file: PathBuf,
+        /// Solve only this mixture
+        #[arg(long)]
+        mixture: Option<String>,
+        #[arg(long, value_enum, default_value = "human")]
+        format: DataFormat,
+    },
+    /// Per reaction: equation, Δn(gas), K, Kc, Kp, ΔrG° and ΔrH° at a temperature
+    Report {
+        file: PathBuf,
+        /// Temperature, e.g. `700 K` or `25 degC` (default: each reaction's own)
+        #[arg(long)]
+        temperature: Option<String>,
+        #[arg(long, value_enum, default_value = "human")]
+        format: DataFormat,
+    },
     /// Canonical layout; never changes meaning or drops a comment
     Fmt {
         /// Files or folders; default the current folder; `-` reads standard input
@@ -87,9 +114,41 @@ enum Command {
     Explain { rule: Option<String> },
 }
 
+/// Write to standard output; a closed pipe (`stoik ... | head`) is not an
+/// error worth a panic.
+pub(crate) fn emit(text: &str) {
+    use std::io::Write;
+    let mut out = std::io::stdout().lock();
+    let _ = out.write_all(text.as_bytes()).and_then(|_| out.flush());
+}
+
 /// Whether to colour output written to stdout.
 pub fn use_color() -> bool {
     std::env::var_os("NO_COLOR").is_none_or(|v| v.is_empty()) && std::io::stdout().is_terminal()
+}
+
+/// Load one file (and what it uses) and analyse it; prints the error and
+/// returns `None` when the file cannot be read.
+pub(crate) fn load_one(
+    file: &std::path::Path,
+) -> Option<(crate::analysis::Analysis, crate::span::FileId)> {
+    let root = crate::config::find_root(file);
+    let config = match crate::config::Config::load(&root) {
+        Ok(c) => c,
+        Err(e) => {
+            eprintln!("error: {e}");
+            return None;
+        }
+    };
+    let mut ws = crate::workspace::Workspace::new(&root);
+    let id = match ws.load(file, &crate::workspace::Overlay::default()) {
+        Ok(id) => id,
+        Err(e) => {
+            eprintln!("error: {}: {}", e.path.display(), e.error);
+            return None;
+        }
+    };
+    Some((crate::analysis::analyze(ws, &config), id))
 }
 
 /// Entry point of the binary; returns the process exit code.
@@ -110,6 +169,16 @@ pub fn main() -> i32 {
             stdin_filename,
         } => check::run(&paths, format, deny.is_some(), stdin_filename.as_deref()),
         Command::Balance { equation, format } => balance::run(&equation, format),
+        Command::Solve {
+            file,
+            mixture,
+            format,
+        } => solve::run(&file, mixture.as_deref(), format),
+        Command::Report {
+            file,
+            temperature,
+            format,
+        } => report::run(&file, temperature.as_deref(), format),
         Command::Fmt { paths, check } => fmt::run(&paths, check),
         Command::Lsp => crate::lsp::run(),
         Command::Explain { rule } => explain::run(rule.as_deref()),

@@ -24,6 +24,9 @@ pub const REACTION_ATTRIBUTES: &[&str] = &[
 ];
 /// The attributes a mixture takes besides its species lines.
 pub const MIXTURE_ATTRIBUTES: &[&str] = &["temperature", "pressure", "volume", "activity"];
+/// The most species an equation may have for stoik to search its balance.
+pub const MAX_BALANCE_SPECIES: usize = 64;
+
 /// The arguments of `arrhenius(...)`.
 pub const ARRHENIUS_ARGUMENTS: &[&str] = &["A", "n", "Ea"];
 
@@ -150,7 +153,7 @@ impl<'w> Lowering<'w> {
         self.reading_note(file, formula_name, &parsed);
         let loc = Loc::new(file, s.span);
         let id = if let Some(alias) = alias {
-            if looks_like_formula(&alias.text) {
+            if looks_like_formula(&alias.text) && parse_formula(&alias.text).is_ok() {
                 self.push(
                     Diagnostic::new(
                         "syntax",
@@ -884,6 +887,12 @@ impl<'w> Lowering<'w> {
     ) -> Result<Fix, String> {
         // Third bodies and photons take no part in the balance.
         let n_left = eq.left.len();
+        if species.len() > MAX_BALANCE_SPECIES {
+            return Err(format!(
+                "with {} species the equation is too long to search for a balance (at most {MAX_BALANCE_SPECIES})",
+                species.len()
+            ));
+        }
         match balance(species, n_left) {
             BalanceOutcome::Unique(coefficients) => {
                 let text = &self.ws.file(file).text;

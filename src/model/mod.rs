@@ -214,20 +214,27 @@ impl Reaction {
     /// The net stoichiometric vector: products positive, reactants negative,
     /// species merged, zeros dropped, sorted by species.
     pub fn net(&self) -> Vec<(SpeciesId, Ratio<i64>)> {
-        let mut v: Vec<(SpeciesId, Ratio<i64>)> = Vec::with_capacity(self.terms.len());
-        for t in &self.terms {
-            let c = match t.side {
-                Side::Left => -t.coefficient,
-                Side::Right => t.coefficient,
-            };
-            match v.iter_mut().find(|(s, _)| *s == t.species) {
-                Some(entry) => entry.1 += c,
-                None => v.push((t.species, c)),
+        let mut v: Vec<(SpeciesId, Ratio<i64>)> = self
+            .terms
+            .iter()
+            .map(|t| {
+                let c = match t.side {
+                    Side::Left => -t.coefficient,
+                    Side::Right => t.coefficient,
+                };
+                (t.species, c)
+            })
+            .collect();
+        v.sort_by_key(|(s, _)| *s);
+        let mut merged: Vec<(SpeciesId, Ratio<i64>)> = Vec::with_capacity(v.len());
+        for (s, c) in v {
+            match merged.last_mut() {
+                Some((last, total)) if *last == s => *total += c,
+                _ => merged.push((s, c)),
             }
         }
-        v.retain(|(_, c)| *c.numer() != 0);
-        v.sort_by_key(|(s, _)| *s);
-        v
+        merged.retain(|(_, c)| *c.numer() != 0);
+        merged
     }
 }
 

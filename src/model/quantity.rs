@@ -351,6 +351,6 @@ pub fn describe(dim: Dimension) -> String {
     ];
     match named.iter().find(|(d, _)| *d == dim) {
         Some((_, n)) => n.to_string(),
-        None => format!("of dimension {}", dim.spell()),
+        None => format!("a quantity in {}", dim.spell()),
     }
 }

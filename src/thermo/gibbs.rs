@@ -23,6 +23,7 @@ pub fn ln_k_from_dh_ds(dh: f64, ds: f64, t_k: f64) -> f64 {
 }
 
 #[cfg(test)]
+#[allow(clippy::unwrap_used)] // Tests may panic on a broken expectation.
 mod tests {
     use super::*;
 

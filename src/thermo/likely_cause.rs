@@ -11,10 +11,13 @@
 //! # Tolerance
 //!
 //! Two ln K values agree when they differ by at most
-//! `max(rel_tol · |expected|, LN_K_ABS_FLOOR)`. The relative part is the
-//! project-wide K tolerance (default 10% of ln K); the absolute floor of
-//! 0.1 in ln K (K within about 10%) keeps constants near K = 1, whose ln K is
-//! near zero, from demanding impossible precision. A cause is named when
+//! `rel_tol · max(|expected|, LN_K_SCALE_FLOOR)`. The relative part is the
+//! project-wide K tolerance (default 10% of ln K). The floor of 1 on the
+//! scale keeps constants near K = 1, whose ln K is near zero, from demanding
+//! impossible precision: under the default tolerance any two K within about
+//! 10% of each other agree. Scaling the floor with `rel_tol` (rather than
+//! fixing it in ln K) lets a caller who asks for a tight tolerance see small
+//! factors too. A cause is named when
 //! undoing that one mistake brings the two values into agreement and at
 //! least halves their difference; among several, the one that leaves the
 //! smallest difference wins.
@@ -33,8 +36,9 @@ use super::temperature::{ln_k_at, ln_k_at_cp};
 /// The project-wide relative tolerance on ln K.
 pub const DEFAULT_REL_TOL: f64 = 0.10;
 
-/// The smallest difference in ln K ever treated as a disagreement.
-pub const LN_K_ABS_FLOOR: f64 = 0.1;
+/// The smallest |ln K| the relative tolerance is taken of: with the default
+/// tolerance, ln K values always agree within 0.1 (K within about 10%).
+pub const LN_K_SCALE_FLOOR: f64 = 1.0;
 
 /// The largest temperature (K) that is read as a possible Celsius value: a
 /// reaction datum "at 25" or "at 100" below the freezing point of water in
@@ -299,7 +303,7 @@ fn factor_text(f: f64) -> String {
 
 /// The tolerance on ln K around `reference`.
 fn tolerance(reference: f64, rel_tol: f64) -> f64 {
-    (rel_tol * reference.abs()).max(LN_K_ABS_FLOOR)
+    rel_tol * reference.abs().max(LN_K_SCALE_FLOOR)
 }
 
 /// The single most likely cause of a mismatch, or `None` when the values
@@ -424,4 +428,240 @@ fn candidates(s: f64, e: f64, ctx: &CauseContext) -> Vec<(LikelyCause, f64, f64)
         }
     }
     out
+}
+
+#[cfg(test)]
+#[allow(clippy::unwrap_used)] // Tests may panic on a broken expectation.
+mod tests {
+    use super::*;
+    use crate::thermo::standard_state::{ln_k_from_kc, ln_k_from_kp, ln_kc_molar_from_ln_k};
+
+    const T: f64 = 298.15;
+    // ΔrG° of N2 + 3 H2 ⇌ 2 NH3 from NIST-JANAF 4th ed. ΔfG°(NH3, g) =
+    // -16.367 kJ/mol (from memory); only a realistic size is needed here.
+    const DG_NH3: f64 = -32_734.0;
+
+    fn ammonia() -> (f64, CauseContext) {
+        let e = ln_k_from_dg(DG_NH3, T);
+        let ctx = CauseContext::new(T)
+            .with_dn(-2.0, 0.0)
+            .with_energy(EnergyBasis::Gibbs { dg: DG_NH3 });
+        (e, ctx)
+    }
+
+    fn named(stated: f64, expected: f64, ctx: &CauseContext) -> Option<LikelyCause> {
+        likely_cause(stated, expected, ctx, DEFAULT_REL_TOL)
+    }
+
+    #[test]
+    fn agreement_names_nothing() {
+        let (e, ctx) = ammonia();
+        assert_eq!(named(e * 1.05, e, &ctx), None);
+        assert_eq!(named(e, e, &ctx), None);
+        // Near K = 1 the floor applies: ln K 0.01 against 0.08 agree.
+        assert_eq!(named(0.01, 0.08, &CauseContext::new(T)), None);
+    }
+
+    #[test]
+    fn reversed_is_named() {
+        let (e, ctx) = ammonia();
+        assert_eq!(named(-e, e, &ctx), Some(LikelyCause::Reversed));
+    }
+
+    #[test]
+    fn each_scale_is_named() {
+        let (e, ctx) = ammonia();
+        for p in [2.0, 3.0, 0.5, 1.0 / 3.0] {
+            assert_eq!(
+                named(p * e, e, &ctx),
+                Some(LikelyCause::Scaled(p)),
+                "p = {p}"
+            );
+            assert_eq!(
+                named(-p * e, e, &ctx),
+                Some(LikelyCause::ReversedScaled(p)),
+                "p = {p}"
+            );
+        }
+    }
+
+    #[test]
+    fn kc_given_as_kp_is_named() {
+        // The user has Kc in mol/L and writes it as Kp in bar.
+        let (e, ctx) = ammonia();
+        let kc_molar = ln_kc_molar_from_ln_k(e, -2.0, 0.0, T);
+        let kp_bar_as_read = kc_molar;
+        let stated = ln_k_from_kp(kp_bar_as_read + (-2.0) * 1e5f64.ln(), -2.0, 0.0);
+        let ctx = ctx.with_form(StatedForm::Kp);
+        match named(stated, e, &ctx) {
+            Some(LikelyCause::KcGivenAsKp { convention, rt, .. }) => {
+                assert_eq!(convention, RtConvention::LitreBar);
+                // RT at 298.15 K = 24.79 L·bar/mol (IUPAC Green Book R).
+                assert!((rt - 24.7896).abs() < 1e-3);
+            }
+            other => panic!("{other:?}"),
+        }
+        // The same value written as a bare K is the same mistake.
+        let ctx = ctx.with_form(StatedForm::K);
+        assert!(matches!(
+            named(kc_molar, e, &ctx),
+            Some(LikelyCause::KcGivenAsKp {
+                convention: RtConvention::LitreBar,
+                ..
+            })
+        ));
+    }
+
+    #[test]
+    fn kp_given_as_kc_is_named_in_each_convention() {
+        // N2O4 ⇌ 2 NO2, Δn(gas) = 1, K = 0.148 (NIST-JANAF ΔfG°, from memory).
+        let e = 0.148f64.ln();
+        let ctx = CauseContext::new(T)
+            .with_dn(1.0, 0.0)
+            .with_form(StatedForm::Kc);
+        // Kp in bar written as Kc in mol/L.
+        let kp_bar = e;
+        let stated = ln_k_from_kc(kp_bar + 1000f64.ln(), 1.0, 0.0, T);
+        assert!(matches!(
+            named(stated, e, &ctx),
+            Some(LikelyCause::KpGivenAsKc {
+                convention: RtConvention::LitreBar,
+                ..
+            })
+        ));
+        // Kp in Pa written as Kc in mol/m^3.
+        let kp_pa = e + 1e5f64.ln();
+        let stated = ln_k_from_kc(kp_pa, 1.0, 0.0, T);
+        assert!(matches!(
+            named(stated, e, &ctx),
+            Some(LikelyCause::KpGivenAsKc {
+                convention: RtConvention::Si,
+                ..
+            })
+        ));
+        // Kp in atm written as Kc in mol/L: K = Kp(atm)·1.01325 for Δn = 1.
+        let kp_atm = e - (101_325.0f64 / 1e5).ln();
+        let stated = ln_k_from_kc(kp_atm + 1000f64.ln(), 1.0, 0.0, T);
+        let tight = likely_cause(stated, e, &ctx, 1e-3);
+        assert!(matches!(
+            tight,
+            Some(LikelyCause::KpGivenAsKc {
+                convention: RtConvention::LitreAtm,
+                ..
+            })
+        ));
+    }
+
+    #[test]
+    fn log_confusions_are_named() {
+        let (e, ctx) = ammonia();
+        let ln10 = std::f64::consts::LN_10;
+        assert_eq!(named(e / ln10, e, &ctx), Some(LikelyCause::Log10ReadAsLn));
+        assert_eq!(named(e * ln10, e, &ctx), Some(LikelyCause::LnReadAsLog10));
+    }
+
+    #[test]
+    fn kcal_kj_confusions_are_named() {
+        // dG = -10 kcal/mol written as -10 kJ/mol: the expected K is computed
+        // from -10 kJ/mol, the stated K is right.
+        let read = -10_000.0;
+        let ctx = CauseContext::new(T).with_energy(EnergyBasis::Gibbs { dg: read });
+        let e = ln_k_from_dg(read, T);
+        let s = ln_k_from_dg(read * 4.184, T);
+        assert_eq!(named(s, e, &ctx), Some(LikelyCause::KcalReadAsKj));
+        let s = ln_k_from_dg(read / 4.184, T);
+        assert_eq!(named(s, e, &ctx), Some(LikelyCause::KjReadAsKcal));
+        // Only ΔH° in kcal, ΔS° in J/(mol K).
+        let (dh, ds) = (-20_000.0, -30.0);
+        let ctx = CauseContext::new(T).with_energy(EnergyBasis::EnthalpyEntropy { dh, ds });
+        let e = ln_k_from_dh_ds(dh, ds, T);
+        let s = ln_k_from_dh_ds(dh * 4.184, ds, T);
+        assert_eq!(named(s, e, &ctx), Some(LikelyCause::KcalReadAsKj));
+        // Energies that did not produce the expected K cannot be blamed.
+        let none = CauseContext::new(T);
+        let s = ln_k_from_dg(-10_000.0 * 4.184, T);
+        assert_eq!(named(s, ln_k_from_dg(-10_000.0, T), &none), None);
+    }
+
+    #[test]
+    fn celsius_read_as_kelvin_is_named() {
+        // K from ΔG°: "at 25" was meant as 25 °C.
+        let dg = 20_000.0;
+        let ctx = CauseContext::new(25.0).with_energy(EnergyBasis::Gibbs { dg });
+        let s = ln_k_from_dg(dg, 298.15);
+        let e = ln_k_from_dg(dg, 25.0);
+        assert_eq!(
+            named(s, e, &ctx),
+            Some(LikelyCause::CelsiusReadAsKelvin { written: 25.0 })
+        );
+        // K carried by van 't Hoff to "100" that meant 100 °C.
+        let carry = VantHoffCarry {
+            ln_k0: 5.0,
+            t0: 298.15,
+            dh: -50_000.0,
+            dcp: None,
+        };
+        let ctx = CauseContext::new(100.0).with_carry(carry);
+        let s = ln_k_at(5.0, 298.15, -50_000.0, 373.15);
+        let e = ln_k_at(5.0, 298.15, -50_000.0, 100.0);
+        assert_eq!(
+            named(s, e, &ctx),
+            Some(LikelyCause::CelsiusReadAsKelvin { written: 100.0 })
+        );
+        // A plausible kelvin temperature is never suspected.
+        let ctx = CauseContext::new(400.0).with_carry(carry);
+        let e = ln_k_at(5.0, 298.15, -50_000.0, 400.0);
+        let s = ln_k_at(5.0, 298.15, -50_000.0, 673.15);
+        assert_eq!(named(s, e, &ctx), None);
+    }
+
+    #[test]
+    fn atm_as_bar_is_named_under_a_tight_tolerance() {
+        // K for a 1 atm standard state: K(bar) = K(atm)·1.01325^Δn.
+        let (e, ctx) = ammonia();
+        let stated = e - (-2.0) * (101_325.0f64 / 1e5).ln();
+        assert_eq!(named(stated, e, &ctx), None, "below the default tolerance");
+        assert_eq!(
+            likely_cause(stated, e, &ctx, 1e-4),
+            Some(LikelyCause::AtmAsBar { dn_gas: -2.0 })
+        );
+    }
+
+    #[test]
+    fn unrelated_factors_name_no_cause() {
+        let (e, ctx) = ammonia();
+        for stated in [
+            e + 7f64.ln(),
+            e * 1.6,
+            e * 5.0,
+            -0.7 * e,
+            e + 1e4f64.ln(),
+            0.0,
+        ] {
+            assert_eq!(named(stated, e, &ctx), None, "stated {stated}");
+        }
+        assert_eq!(named(f64::NAN, e, &ctx), None);
+        assert_eq!(named(f64::INFINITY, e, &ctx), None);
+    }
+
+    #[test]
+    fn messages_read_well() {
+        assert!(LikelyCause::Scaled(0.5).message().contains("1/2"));
+        let m = LikelyCause::KcGivenAsKp {
+            convention: RtConvention::LitreBar,
+            rt: 24.79,
+            dn_gas: -2.0,
+        }
+        .message();
+        assert!(m.contains("L·bar/mol") && m.contains("mol/L"), "{m}");
+        let m = LikelyCause::CelsiusReadAsKelvin { written: 25.0 }.message();
+        assert!(m.contains("298.15"), "{m}");
+        for cause in [
+            LikelyCause::Reversed,
+            LikelyCause::KcalReadAsKj,
+            LikelyCause::Log10ReadAsLn,
+        ] {
+            assert!(!cause.message().ends_with('.'));
+        }
+    }
 }

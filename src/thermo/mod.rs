@@ -15,7 +15,7 @@ pub mod temperature;
 
 pub use gibbs::{dg_from_ln_k, ln_k_from_dg, ln_k_from_dh_ds};
 pub use likely_cause::{
-    CauseContext, DEFAULT_REL_TOL, EnergyBasis, LN_K_ABS_FLOOR, LikelyCause, RtConvention,
+    CauseContext, DEFAULT_REL_TOL, EnergyBasis, LN_K_SCALE_FLOOR, LikelyCause, RtConvention,
     StatedForm, VantHoffCarry, likely_cause, likely_causes,
 };
 pub use standard_state::{

@@ -77,6 +77,7 @@ pub fn kp_si_to_bar(kp_si: f64, dn_gas: f64, dn_aq: f64) -> f64 {
 }
 
 #[cfg(test)]
+#[allow(clippy::unwrap_used)] // Tests may panic on a broken expectation.
 mod tests {
     use super::*;
 

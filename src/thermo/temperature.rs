@@ -170,7 +170,7 @@ pub fn vant_hoff_dh(points: &[(f64, f64)]) -> Option<VantHoffFit> {
         .iter()
         .map(|p| (1.0 / p.0 - mean_x) * (p.1 - mean_y))
         .sum();
-    if !(sxx > 0.0) {
+    if sxx <= 0.0 || sxx.is_nan() {
         return None;
     }
     let slope = sxy / sxx;
@@ -187,6 +187,7 @@ pub fn vant_hoff_dh(points: &[(f64, f64)]) -> Option<VantHoffFit> {
 }
 
 #[cfg(test)]
+#[allow(clippy::unwrap_used)] // Tests may panic on a broken expectation.
 mod tests {
     use super::*;
 

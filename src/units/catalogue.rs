@@ -34,6 +34,9 @@ const UNITS: &[(&str, Unit)] = &[
     ("dm", Unit::linear(1e-1, D::LENGTH)),
     ("cm", Unit::linear(1e-2, D::LENGTH)),
     ("mm", Unit::linear(1e-3, D::LENGTH)),
+    ("um", Unit::linear(1e-6, D::LENGTH)),
+    ("µm", Unit::linear(1e-6, D::LENGTH)),
+    ("μm", Unit::linear(1e-6, D::LENGTH)),
     ("nm", Unit::linear(1e-9, D::LENGTH)),
     ("km", Unit::linear(1e3, D::LENGTH)),
     // Concentration.
@@ -100,9 +103,34 @@ pub fn known_names() -> impl Iterator<Item = &'static str> {
     UNITS.iter().map(|(n, _)| *n)
 }
 
-/// Up to three known names closest to an unknown one: first any name that
-/// differs only in letter case, then names within a small edit distance.
+/// Spellings people use for units stoik knows under another name.
+const ALIASES: &[(&str, &str)] = &[
+    ("sec", "s"),
+    ("secs", "s"),
+    ("hr", "h"),
+    ("hrs", "h"),
+    ("hour", "h"),
+    ("mole", "mol"),
+    ("moles", "mol"),
+    ("liter", "L"),
+    ("litre", "L"),
+    ("molec", "molecule"),
+    ("molecules", "molecule"),
+    ("C", "degC"),
+    ("deg", "degC"),
+    ("celsius", "degC"),
+    ("kelvin", "K"),
+    ("bars", "bar"),
+];
+
+/// Up to three known names closest to an unknown one: first a usual
+/// alternative spelling (`sec` for `s`), then any name that differs only in
+/// letter case, then names within a small edit distance.
 pub fn suggest(name: &str) -> Vec<String> {
+    let alias = ALIASES
+        .iter()
+        .find(|(a, _)| a.eq_ignore_ascii_case(name))
+        .map(|(_, known)| *known);
     let mut scored: Vec<(usize, &'static str)> = known_names()
         .filter_map(|known| {
             if known.to_lowercase() == name.to_lowercase() {
@@ -114,7 +142,7 @@ pub fn suggest(name: &str) -> Vec<String> {
         })
         .collect();
     scored.sort_by_key(|(d, _)| *d);
-    let mut out: Vec<String> = Vec::new();
+    let mut out: Vec<String> = alias.iter().map(|a| a.to_string()).collect();
     for (_, known) in scored {
         if !out.iter().any(|o| o == known) && out.len() < 3 {
             out.push(known.to_string());
@@ -124,6 +152,7 @@ pub fn suggest(name: &str) -> Vec<String> {
 }
 
 #[cfg(test)]
+#[allow(clippy::unwrap_used)] // Tests may panic on a broken expectation.
 mod tests {
     use super::*;
 
@@ -133,6 +162,8 @@ mod tests {
         assert_eq!(suggest("KJ").first().map(String::as_str), Some("kJ"));
         assert!(suggest("mole").contains(&"mol".to_string()));
         assert!(suggest("zzzzzz").is_empty());
+        assert_eq!(suggest("sec").first().map(String::as_str), Some("s"));
+        assert_eq!(suggest("C").first().map(String::as_str), Some("degC"));
     }
 
     #[test]

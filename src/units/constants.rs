@@ -64,6 +64,7 @@ pub const CELSIUS_OFFSET: f64 = 273.15;
 pub const STANDARD_TEMPERATURE: f64 = 298.15;
 
 #[cfg(test)]
+#[allow(clippy::unwrap_used)] // Tests may panic on a broken expectation.
 mod tests {
     use super::*;
 

@@ -290,6 +290,7 @@ impl std::ops::Div for Dimension {
 }
 
 #[cfg(test)]
+#[allow(clippy::unwrap_used)] // Tests may panic on a broken expectation.
 mod tests {
     use super::*;
 

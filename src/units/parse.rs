@@ -13,6 +13,8 @@
 //! temperature); inside a compound unit they are rejected with a pointer to
 //! K, because a compound of an offset scale has no single meaning.
 
+use std::cell::RefCell;
+use std::collections::HashMap;
 use std::ops::Range;
 
 use chumsky::prelude::*;
@@ -28,7 +30,7 @@ pub const MAX_NESTING: usize = 16;
 pub const MAX_POWER: i32 = 12;
 
 /// The largest exponent of any base dimension in a parsed unit.
-pub const MAX_DIMENSION_EXPONENT: i32 = 24;
+pub const MAX_DIMENSION_EXPONENT: i32 = 60;
 
 /// Why a unit text was rejected, and where.
 #[derive(Clone, Debug, PartialEq, Eq)]
@@ -76,11 +78,46 @@ struct Term {
 type Value = Result<Term, UnitError>;
 type Extra<'a> = extra::Err<Rich<'a, char>>;
 
+/// How many distinct unit texts each thread remembers.
+const CACHE_CAPACITY: usize = 4096;
+
+thread_local! {
+    /// Results of recent parses: reaction libraries repeat a handful of unit
+    /// texts many thousands of times, and building the parser costs more
+    /// than looking a text up.
+    static CACHE: RefCell<HashMap<Box<str>, Result<Unit, UnitError>>> =
+        RefCell::new(HashMap::new());
+}
+
 /// Parses a unit expression into its SI factor, offset and dimension.
 ///
 /// Never panics. An empty text is an error (a dimensionless quantity is
-/// written without a unit, so the caller does not ask).
+/// written without a unit, so the caller does not ask). Results are
+/// remembered per thread for repeated texts.
 pub fn parse_unit(text: &str) -> Result<Unit, UnitError> {
+    if text.len() > 64 {
+        return parse_unit_uncached(text);
+    }
+    let cached = CACHE
+        .try_with(|c| c.try_borrow().ok().and_then(|m| m.get(text).cloned()))
+        .ok()
+        .flatten();
+    if let Some(result) = cached {
+        return result;
+    }
+    let result = parse_unit_uncached(text);
+    let _ = CACHE.try_with(|c| {
+        if let Ok(mut m) = c.try_borrow_mut() {
+            if m.len() >= CACHE_CAPACITY {
+                m.clear();
+            }
+            m.insert(text.into(), result.clone());
+        }
+    });
+    result
+}
+
+fn parse_unit_uncached(text: &str) -> Result<Unit, UnitError> {
     if text.trim().is_empty() {
         return Err(UnitError::new(
             text.len()..text.len(),
@@ -331,6 +368,10 @@ fn syntax_error(text: &str, error: &Rich<'_, char>) -> UnitError {
             )
             .with_suggestions(vec!["*".to_string()])
         }
+        Some('.') if is_after_power(before) => UnitError::new(
+            span,
+            "unit powers must be whole numbers: write the unit without a fractional power",
+        ),
         Some(c) if c.is_ascii_digit() && before.ends_with(')') => {
             UnitError::new(span, "write a power of a group with `^`, as in `(mol/L)^2`")
                 .with_suggestions(vec![format!("^{c}")])
@@ -345,6 +386,17 @@ fn syntax_error(text: &str, error: &Rich<'_, char>) -> UnitError {
     }
 }
 
+/// True when `before` ends in `^` and an integer (`m^1` before `.5`).
+fn is_after_power(before: &str) -> bool {
+    match before.rsplit_once('^') {
+        Some((_, power)) => {
+            let digits = power.trim_start_matches(['+', '-', '\u{2212}', '(']);
+            !digits.is_empty() && digits.bytes().all(|b| b.is_ascii_digit())
+        }
+        None => false,
+    }
+}
+
 fn floor_boundary(text: &str, mut i: usize) -> usize {
     while i > 0 && !text.is_char_boundary(i) {
         i -= 1;
@@ -353,16 +405,31 @@ fn floor_boundary(text: &str, mut i: usize) -> usize {
 }
 
 fn expected_list(error: &Rich<'_, char>) -> String {
+    use chumsky::error::RichPattern;
+    let mut saw_digit = false;
     let mut items: Vec<String> = error
         .expected()
-        .map(|p| match p {
-            chumsky::error::RichPattern::Token(t) => format!("`{}`", **t),
-            chumsky::error::RichPattern::EndOfInput => "the end of the unit".to_string(),
-            other => other.to_string(),
+        .filter_map(|p| match p {
+            RichPattern::Token(t) => match **t {
+                '*' | '·' | '\u{22C5}' => Some("`*`".to_string()),
+                c if c.is_whitespace() => None,
+                c => Some(format!("`{c}`")),
+            },
+            RichPattern::EndOfInput => Some("the end of the unit".to_string()),
+            RichPattern::Label(l) if l == "digit" => {
+                saw_digit = true;
+                None
+            }
+            RichPattern::Label(l) if l.contains("whitespace") => None,
+            RichPattern::Label(l) => Some(l.to_string()),
+            _ => None,
         })
         .collect();
     items.sort();
     items.dedup();
+    if items.is_empty() && saw_digit {
+        items.push("a digit".to_string());
+    }
     match items.len() {
         0 => "a unit name".to_string(),
         1 => items.remove(0),
@@ -374,6 +441,7 @@ fn expected_list(error: &Rich<'_, char>) -> String {
 }
 
 #[cfg(test)]
+#[allow(clippy::unwrap_used)] // Tests may panic on a broken expectation.
 mod tests {
     use super::*;
     use crate::units::constants::{AVOGADRO, CALORIE};
@@ -422,8 +490,12 @@ mod tests {
         let e = parse_unit("kJ/mole").unwrap_err();
         assert_eq!(e.span, 3..7);
         assert_eq!(e.suggestions.first().map(String::as_str), Some("mol"));
+        // Spans are byte ranges: `µ` takes two bytes.
         let e = parse_unit("µm/torr").unwrap_err();
-        assert_eq!(&"µm/torr"[e.span.clone()], "µm");
+        assert_eq!(e.span, 4..8);
+        assert_eq!(e.suggestions, vec!["Torr".to_string()]);
+        let e = parse_unit("µmolx").unwrap_err();
+        assert_eq!(&"µmolx"[e.span.clone()], "µmolx");
     }
 
     #[test]
@@ -438,12 +510,17 @@ mod tests {
         assert_eq!(e.suggestions, vec!["s^2".to_string()]);
         let e = parse_unit("(mol/L)2").unwrap_err();
         assert!(e.message.contains('^'), "{}", e.message);
+        let e = parse_unit("M^1.5").unwrap_err();
+        assert!(e.message.contains("whole numbers"), "{}", e.message);
+        let e = parse_unit("mol/L)").unwrap_err();
+        assert_eq!(e.span, 5..6);
+        assert!(!e.message.contains("whitespace"), "{}", e.message);
         let e = parse_unit("10*s").unwrap_err();
         assert_eq!(e.span, 0..2);
         assert!(parse_unit("").is_err());
         assert!(parse_unit("s^0").is_err());
         assert!(parse_unit("s^99999999999").is_err());
-        assert!(parse_unit("m^12*m^12*m").is_err());
+        assert!(parse_unit("m^12*m^12*m^12*m^12*m^12*m").is_err());
     }
 
     #[test]

@@ -89,6 +89,7 @@ fn finite_unit(factor: f64, dim: Dimension) -> Option<Unit> {
 }
 
 #[cfg(test)]
+#[allow(clippy::unwrap_used)] // Tests may panic on a broken expectation.
 mod tests {
     use super::*;
 
