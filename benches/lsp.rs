@@ -16,30 +16,27 @@ use stoik::lsp::snapshot::build_with;
 use stoik::syntax::line_index::{Encoding, Position};
 use tower_lsp_server::ls_types as lsp;
 
-/// An invented library: species with data, then reactions of a few shapes
-/// with K, dH and rate constants, and a mixture at the end.
+/// An invented library of distinct reactions: dehydrogenations with K and
+/// dH, chlorinations with Arrhenius rate constants, and a mixture.
 fn library(reactions: usize) -> String {
     let mut s = String::from("units energy = kJ/mol, temperature = K\n\n");
-    for i in 0..50 {
-        s.push_str(&format!(
-            "species sp{i} = C{}H{}O(g)\n  dHf = -{}.5 kJ/mol\n  dGf = -{}.1 kJ/mol\n",
-            i + 1,
-            2 * i + 2,
-            100 + i,
-            80 + i
-        ));
-    }
-    let shapes = [
-        "CO(g) + H2O(g) <=> CO2(g) + H2(g)\n  K = 1.0e5 at 298.15 K\n  dH = -41.2 kJ/mol\n",
-        "N2(g) + 3 H2(g) <=> 2 NH3(g)\n  Kc = 0.5 L^2/mol^2 at 700 K\n  dH = -92.2 kJ/mol\n",
-        "CaCO3(s) <=> CaO(s) + CO2(g)\n  Kp = 1.2 bar at 1100 K\n",
-        "2 NO2(g) -> N2O4(g)\n  k = arrhenius(A = 1.0e9 L/(mol*s), n = 0, Ea = 10 kJ/mol)\n",
-        "Fe^3+(aq) + e- <=> Fe^2+(aq)\n  logK = 13.0\n",
-    ];
     for i in 0..reactions {
-        s.push_str(&format!("reaction r{i}: {}", shapes[i % shapes.len()]));
+        let n = i / 2 + 1;
+        if i % 2 == 0 {
+            s.push_str(&format!(
+                "reaction d{n}: C{n}H{}(g) <=> C{n}H{}(g) + H2(g)\n  K = 1.0e-3 at 700 K\n  dH = 120.5 kJ/mol\n",
+                2 * n + 2,
+                2 * n
+            ));
+        } else {
+            s.push_str(&format!(
+                "reaction c{n}: C{n}H{}(g) + Cl2(g) -> C{n}H{}Cl(g) + HCl(g)\n  k = arrhenius(A = 1.0e9 L/(mol*s), n = 0, Ea = 10 kJ/mol)\n",
+                2 * n + 2,
+                2 * n + 1
+            ));
+        }
     }
-    s.push_str("\nmixture feed\n  temperature = 800 K\n  CO(g) = 1 mol/L\n  H2O(g) = 1 mol/L\n  CO2(g) = 0 mol/L\n  H2(g) = 0 mol/L\n");
+    s.push_str("\nmixture feed\n  temperature = 800 K\n  C1H4(g) = 1 mol/L\n  C1H2(g) = 0 mol/L\n  H2(g) = 0 mol/L\n");
     s
 }
 
@@ -91,6 +88,45 @@ fn bench(c: &mut Criterion) {
                 range,
                 Encoding::Utf16,
             ))
+        })
+    });
+
+    // The core's synthetic library (many consistent cycles, 1% planted
+    // mistakes): the top file is edited, the files it uses come from the
+    // same overlay.
+    let generated = stoik::synthetic::generate(&stoik::synthetic::Recipe {
+        reactions: 20_000,
+        mistakes: 0.01,
+        files: 1,
+        seed: 7,
+    });
+    let files: Vec<(PathBuf, String)> = generated
+        .files
+        .iter()
+        .map(|(p, t)| (root.join(p), t.clone()))
+        .collect();
+    let top = files[0].0.clone();
+    let mut top_text = files[0].1.clone();
+    let mut version = 1;
+    group.bench_function("edit_to_diagnostics_synthetic_20000_reactions", |b| {
+        b.iter(|| {
+            version += 1;
+            let at = Position { line: 0, column: 0 };
+            let change = Change {
+                range: Some((at, at)),
+                text: if version % 2 == 0 { "#\n" } else { "" }.to_string(),
+            };
+            if version % 2 == 0 {
+                apply(&mut top_text, &change, Encoding::Utf16);
+            } else {
+                top_text = top_text.trim_start_matches("#\n").to_string();
+            }
+            let mut texts: HashMap<PathBuf, String> = files.iter().cloned().collect();
+            texts.insert(top.clone(), top_text.clone());
+            let snap = build_with(&top, version, texts, root, Config::default(), None)
+                .expect("the overlay serves the files");
+            let diags = stoik::lsp::server::document_diagnostics(&snap, Encoding::Utf16, &docs);
+            black_box(diags.len())
         })
     });
     group.finish();

@@ -75,7 +75,12 @@ pub fn generate(recipe: &Recipe) -> Generated {
     let monomer_count = 24;
     let mut monomers: Vec<(Composition, f64)> = Vec::new();
     while monomers.len() < monomer_count {
-        let c = [rng.below(3) as u32, 1 + rng.below(4) as u32, rng.below(2) as u32, rng.below(3) as u32];
+        let c = [
+            rng.below(3) as u32,
+            1 + rng.below(4) as u32,
+            rng.below(2) as u32,
+            rng.below(3) as u32,
+        ];
         if monomers.iter().any(|(m, _)| *m == c) {
             continue;
         }
@@ -83,10 +88,11 @@ pub fn generate(recipe: &Recipe) -> Generated {
     }
     // Species are sums of up to `depth` monomers, identified by composition.
     let mut species: std::collections::HashMap<Composition, f64> = std::collections::HashMap::new();
-    let gibbs = |species: &mut std::collections::HashMap<Composition, f64>, c: Composition, g: f64| {
-        *species.entry(c).or_insert(g)
-    };
-    let add = |a: &Composition, b: &Composition| [a[0] + b[0], a[1] + b[1], a[2] + b[2], a[3] + b[3]];
+    let gibbs = |species: &mut std::collections::HashMap<Composition, f64>,
+                 c: Composition,
+                 g: f64| { *species.entry(c).or_insert(g) };
+    let add =
+        |a: &Composition, b: &Composition| [a[0] + b[0], a[1] + b[1], a[2] + b[2], a[3] + b[3]];
     let rt = GAS_CONSTANT * STANDARD_TEMPERATURE;
     let per_file = recipe.reactions.div_ceil(recipe.files.max(1));
     let mut bodies: Vec<String> = vec![String::new(); recipe.files.max(1)];
@@ -117,7 +123,11 @@ pub fn generate(recipe: &Recipe) -> Generated {
         }
         let body = &mut bodies[i / per_file];
         let (fx, fy, fz) = (formula(&x), formula(&y), formula(&z));
-        let lhs = if x == y { format!("2 {fx}(g)") } else { format!("{fx}(g) + {fy}(g)") };
+        let lhs = if x == y {
+            format!("2 {fx}(g)")
+        } else {
+            format!("{fx}(g) + {fy}(g)")
+        };
         let _ = writeln!(
             body,
             "reaction r{i}: {lhs} <=> {fz}(g)\n  K = {:.6e} at 298.15 K{}",
@@ -126,18 +136,28 @@ pub fn generate(recipe: &Recipe) -> Generated {
         );
     }
     let mut files = Vec::new();
-    let mut top = String::from("# Synthetic library, invented data for benchmarks; do not use for design.\nuse \"species.stoik\"\n");
+    let mut top = String::from(
+        "# Synthetic library, invented data for benchmarks; do not use for design.\nuse \"species.stoik\"\n",
+    );
     for i in 0..bodies.len() {
         let _ = writeln!(top, "use \"part{i}.stoik\"");
     }
     files.push(("library.stoik".to_string(), top));
     let mut data = String::from("# Invented formation data of the monomers.\n");
     for (c, g) in &monomers {
-        let _ = writeln!(data, "species {}(g)\n  dGf = {:.3} kJ/mol", formula(c), g / 1000.0);
+        let _ = writeln!(
+            data,
+            "species {}(g)\n  dGf = {:.3} kJ/mol",
+            formula(c),
+            g / 1000.0
+        );
     }
     files.push(("species.stoik".to_string(), data));
     for (i, b) in bodies.into_iter().enumerate() {
-        files.push((format!("part{i}.stoik"), format!("# Synthetic part {i}, invented data.\n{b}")));
+        files.push((
+            format!("part{i}.stoik"),
+            format!("# Synthetic part {i}, invented data.\n{b}"),
+        ));
     }
     Generated { files, planted }
 }

@@ -27,7 +27,8 @@ fn parse(text: &str) -> Formula {
 /// differently (no standard atomic weight; the isotope is a matter of recent
 /// half-life measurements): stoik's mass numbers are from memory, the
 /// other values are periodictable's.
-const ISOTOPE_CHOICE_DIFFERS: [&str; 10] = ["Tc", "Lr", "Rf", "Db", "Sg", "Bh", "Hs", "Mt", "Rg", "Mc"];
+const ISOTOPE_CHOICE_DIFFERS: [&str; 10] =
+    ["Tc", "Lr", "Rf", "Db", "Sg", "Bh", "Hs", "Mt", "Rg", "Mc"];
 
 #[test]
 fn atomic_weights_agree_with_periodictable() {
@@ -38,7 +39,12 @@ fn atomic_weights_agree_with_periodictable() {
     let mut differing = Vec::new();
     for e in &ELEMENTS {
         let reference = &masses[e.symbol];
-        assert_eq!(reference["z"].as_u64(), Some(u64::from(e.z)), "{}", e.symbol);
+        assert_eq!(
+            reference["z"].as_u64(),
+            Some(u64::from(e.z)),
+            "{}",
+            e.symbol
+        );
         let m = reference["mass"].as_f64().expect("mass");
         if e.standard_weight {
             // CIAAW 2021 abridged values have five significant figures
@@ -47,7 +53,12 @@ fn atomic_weights_agree_with_periodictable() {
             // older full-precision values periodictable carries by at most
             // 1.6e-4 relative (S: 32.06 against 32.065). 2e-4 covers both.
             let rel = (e.atomic_weight - m).abs() / m;
-            assert!(rel < 2e-4, "{}: stoik {} periodictable {m}", e.symbol, e.atomic_weight);
+            assert!(
+                rel < 2e-4,
+                "{}: stoik {} periodictable {m}",
+                e.symbol,
+                e.atomic_weight
+            );
         } else {
             assert!((e.atomic_weight - m).abs() <= 10.0, "{}", e.symbol);
             if e.atomic_weight != m {
@@ -62,7 +73,9 @@ fn atomic_weights_agree_with_periodictable() {
 fn electron_molar_mass_agrees_with_scipy() {
     // Source: scipy.constants "electron molar mass" (CODATA).
     let data = load("periodictable_masses.json");
-    let m = data["electron_molar_mass_g_per_mol"].as_f64().expect("electron mass");
+    let m = data["electron_molar_mass_g_per_mol"]
+        .as_f64()
+        .expect("electron mass");
     assert!((ELECTRON_MOLAR_MASS - m).abs() / m < 1e-9);
     assert_eq!(parse("e-").molar_mass(), ELECTRON_MOLAR_MASS);
 }
@@ -76,7 +89,10 @@ fn molar_masses_agree_with_periodictable_formulas() {
     for (text, m) in compounds {
         let m = m.as_f64().expect("mass");
         let ours = parse(text).molar_mass();
-        assert!((ours - m).abs() / m < 2e-4, "{text}: stoik {ours} periodictable {m}");
+        assert!(
+            (ours - m).abs() / m < 2e-4,
+            "{text}: stoik {ours} periodictable {m}"
+        );
     }
 }
 
@@ -85,26 +101,26 @@ fn molar_masses_from_ciaaw_weights_by_hand() {
     // Each value is the sum of CIAAW 2021 abridged/conventional atomic
     // weights (IUPAC/CIAAW, Pure Appl. Chem. 94 (2022) 573), done by hand.
     let cases: [(&str, f64); 20] = [
-        ("H2O", 18.015),               // 2(1.008) + 15.999
-        ("CO2", 44.009),               // 12.011 + 2(15.999)
-        ("NaCl", 58.440),              // 22.990 + 35.45
-        ("CuSO4·5H2O", 249.677),       // 63.546 + 32.06 + 4(15.999) + 5(18.015)
-        ("K4[Fe(CN)6]", 368.345),      // 4(39.098) + 55.845 + 6(12.011) + 6(14.007)
-        ("Ca3(PO4)2", 310.174),        // 3(40.078) + 2(30.974) + 8(15.999)
-        ("NH3", 17.031),               // 14.007 + 3(1.008)
-        ("CH4", 16.043),               // 12.011 + 4(1.008)
-        ("C6H12O6", 180.156),          // 6(12.011) + 12(1.008) + 6(15.999)
-        ("H2SO4", 98.072),             // 2(1.008) + 32.06 + 4(15.999)
-        ("KMnO4", 158.032),            // 39.098 + 54.938 + 4(15.999)
-        ("Fe2O3", 159.687),            // 2(55.845) + 3(15.999)
-        ("CaCO3", 100.086),            // 40.078 + 12.011 + 3(15.999)
-        ("(NH4)2SO4", 132.134),        // 2(14.007) + 8(1.008) + 32.06 + 4(15.999)
-        ("CaSO4·0.5H2O", 145.1415),    // 40.078 + 32.06 + 4(15.999) + 0.5(18.015)
-        ("Al2(SO4)3", 342.132),        // 2(26.982) + 3(32.06) + 12(15.999)
-        ("C2H5OH", 46.069),            // 2(12.011) + 6(1.008) + 15.999
-        ("SO4^2-", 96.056),            // 32.06 + 4(15.999); electrons ignored
-        ("UF6", 352.018),              // 238.03 + 6(18.998)
-        ("[Co(NH3)6]Cl3", 267.469),    // 58.933 + 6(17.031) + 3(35.45)
+        ("H2O", 18.015),            // 2(1.008) + 15.999
+        ("CO2", 44.009),            // 12.011 + 2(15.999)
+        ("NaCl", 58.440),           // 22.990 + 35.45
+        ("CuSO4·5H2O", 249.677),    // 63.546 + 32.06 + 4(15.999) + 5(18.015)
+        ("K4[Fe(CN)6]", 368.345),   // 4(39.098) + 55.845 + 6(12.011) + 6(14.007)
+        ("Ca3(PO4)2", 310.174),     // 3(40.078) + 2(30.974) + 8(15.999)
+        ("NH3", 17.031),            // 14.007 + 3(1.008)
+        ("CH4", 16.043),            // 12.011 + 4(1.008)
+        ("C6H12O6", 180.156),       // 6(12.011) + 12(1.008) + 6(15.999)
+        ("H2SO4", 98.072),          // 2(1.008) + 32.06 + 4(15.999)
+        ("KMnO4", 158.032),         // 39.098 + 54.938 + 4(15.999)
+        ("Fe2O3", 159.687),         // 2(55.845) + 3(15.999)
+        ("CaCO3", 100.086),         // 40.078 + 12.011 + 3(15.999)
+        ("(NH4)2SO4", 132.134),     // 2(14.007) + 8(1.008) + 32.06 + 4(15.999)
+        ("CaSO4·0.5H2O", 145.1415), // 40.078 + 32.06 + 4(15.999) + 0.5(18.015)
+        ("Al2(SO4)3", 342.132),     // 2(26.982) + 3(32.06) + 12(15.999)
+        ("C2H5OH", 46.069),         // 2(12.011) + 6(1.008) + 15.999
+        ("SO4^2-", 96.056),         // 32.06 + 4(15.999); electrons ignored
+        ("UF6", 352.018),           // 238.03 + 6(18.998)
+        ("[Co(NH3)6]Cl3", 267.469), // 58.933 + 6(17.031) + 3(35.45)
     ];
     for (text, m) in cases {
         let ours = parse(text).molar_mass();
@@ -114,7 +130,10 @@ fn molar_masses_from_ciaaw_weights_by_hand() {
 
 fn ratio(text: &str) -> Ratio<i64> {
     match text.split_once('/') {
-        Some((n, d)) => Ratio::new(n.parse().expect("numerator"), d.parse().expect("denominator")),
+        Some((n, d)) => Ratio::new(
+            n.parse().expect("numerator"),
+            d.parse().expect("denominator"),
+        ),
         None => Ratio::from_integer(text.parse().expect("integer")),
     }
 }
@@ -190,7 +209,9 @@ fn balances_agree_with_sympy_nullspace() {
                 z: e["z"].as_u64().expect("z") as u8,
                 side: side(&e["side"]),
             }),
-            "empty_side" => BalanceOutcome::Impossible(BalanceFailure::EmptySide { side: side(&e["side"]) }),
+            "empty_side" => BalanceOutcome::Impossible(BalanceFailure::EmptySide {
+                side: side(&e["side"]),
+            }),
             "wrong_side" => BalanceOutcome::Impossible(BalanceFailure::WrongSide {
                 species: indices(&e["species"]),
             }),
@@ -213,7 +234,12 @@ fn large_ferrocyanide_case_is_first() {
     let data = load("balance_cases.json");
     let first = &data["cases"][0]["expected"]["coefficients"];
     let want: Vec<u64> = vec![10, 122, 299, 162, 5, 122, 60, 60, 188];
-    let got: Vec<u64> = first.as_array().expect("list").iter().filter_map(Value::as_u64).collect();
+    let got: Vec<u64> = first
+        .as_array()
+        .expect("list")
+        .iter()
+        .filter_map(Value::as_u64)
+        .collect();
     assert_eq!(got, want);
 }
 
@@ -222,7 +248,16 @@ fn parsing_a_large_library_is_fast() {
     // 100,000 reactions of about four species each: parse 400,000 tokens.
     // The bar (well under a second in release) is checked loosely here
     // because tests run in debug builds on a shared machine.
-    let tokens = ["K4[Fe(CN)6]", "SO₄²⁻", "CuSO4·5H2O", "Fe3+(aq)", "CH3CH2OH", "NH4+", "Ca3(PO4)2(s)", "e-"];
+    let tokens = [
+        "K4[Fe(CN)6]",
+        "SO₄²⁻",
+        "CuSO4·5H2O",
+        "Fe3+(aq)",
+        "CH3CH2OH",
+        "NH4+",
+        "Ca3(PO4)2(s)",
+        "e-",
+    ];
     let start = std::time::Instant::now();
     let mut atoms = 0usize;
     for i in 0..400_000 {

@@ -42,13 +42,13 @@ async fn each_encoding_counts_columns_its_own_way() {
         assert_eq!(range["start"], pos_in(WIDE, at, enc), "{name}");
         assert_eq!(range["end"], pos_in(WIDE, at + 2, enc), "{name}");
     }
-    // Spot-check the expected columns by hand: before `Kx` there are 69
-    // scalar values; `𝛥` is 2 UTF-16 units and ₂ ⇌ ° µ α β take 2 or 3
-    // bytes each.
+    // Spot-check the columns by hand: 59 scalar values precede `Kx`;
+    // `𝛥` is the one character taking 2 UTF-16 units (60 in all), and
+    // ₂ ₂ ⇌ ° µ α β 𝛥 take 3, 3, 3, 2, 2, 2, 2, 4 bytes (72 in all).
     let prefix = &WIDE[..at];
-    assert_eq!(prefix.chars().count(), 64);
-    assert_eq!(prefix.encode_utf16().count(), 65);
-    assert_eq!(prefix.len(), 78);
+    assert_eq!(prefix.chars().count(), 59);
+    assert_eq!(prefix.encode_utf16().count(), 60);
+    assert_eq!(prefix.len(), 72);
 }
 
 #[tokio::test(flavor = "multi_thread", worker_threads = 2)]

@@ -29,8 +29,8 @@
 //! elimination. Numbers stay on `i64` rationals while they fit and move to
 //! big rationals when they do not.
 
-use std::collections::{BinaryHeap, HashMap};
 use std::cmp::Reverse;
+use std::collections::{BinaryHeap, HashMap};
 
 use num_bigint::BigInt;
 use num_rational::{BigRational, Ratio};
@@ -39,7 +39,6 @@ use num_traits::{CheckedAdd, CheckedMul, ToPrimitive, Zero};
 fn big(r: &Ratio<i64>) -> BigRational {
     BigRational::new(BigInt::from(*r.numer()), BigInt::from(*r.denom()))
 }
-
 
 /// An exact rational that stays on machine integers while it fits and
 /// moves to big integers when it does not, so that the common case (small
@@ -130,7 +129,8 @@ impl std::hash::Hasher for IdHasher {
 
     fn write(&mut self, bytes: &[u8]) {
         for b in bytes {
-            self.0 = (self.0.rotate_left(5) ^ u64::from(*b)).wrapping_mul(0x51_7c_c1_b7_27_22_0a_95);
+            self.0 =
+                (self.0.rotate_left(5) ^ u64::from(*b)).wrapping_mul(0x51_7c_c1_b7_27_22_0a_95);
         }
     }
 
@@ -184,7 +184,11 @@ impl CycleFinder {
     /// basis unchanged; a zero vector gives an empty combination. Otherwise
     /// the reaction joins the basis and `None` is returned. Repeated
     /// species ids in `vector` are summed.
-    pub fn add(&mut self, reaction: usize, vector: &[(u32, Ratio<i64>)]) -> Option<Vec<(usize, BigRational)>> {
+    pub fn add(
+        &mut self,
+        reaction: usize,
+        vector: &[(u32, Ratio<i64>)],
+    ) -> Option<Vec<(usize, BigRational)>> {
         let mut work: IdMap<u32, Q> = IdMap::default();
         for (s, c) in vector {
             if c.is_zero() {
@@ -240,7 +244,8 @@ impl CycleFinder {
             .min_by_key(|s| (self.occurrences.get(s).copied().unwrap_or(0), Reverse(*s)))
             .unwrap_or(0);
         let scale = work.get(&pivot).map_or(Q::Small(Ratio::zero()), Q::recip);
-        let mut entries: Vec<(u32, Q)> = work.into_iter().map(|(s, c)| (s, c.mul(&scale))).collect();
+        let mut entries: Vec<(u32, Q)> =
+            work.into_iter().map(|(s, c)| (s, c.mul(&scale))).collect();
         entries.sort_by_key(|(s, _)| *s);
         let minus_scale = scale.neg();
         let mut combination: Vec<(usize, Q)> = used
@@ -273,7 +278,12 @@ impl CycleFinder {
     fn expand(&self, used: &[(usize, Q)]) -> Vec<(usize, Q)> {
         let mut terms: Vec<(usize, Q)> = Vec::new();
         for (k, c) in used {
-            terms.extend(self.basis[*k].combination.iter().map(|(r, y)| (*r, c.mul(y))));
+            terms.extend(
+                self.basis[*k]
+                    .combination
+                    .iter()
+                    .map(|(r, y)| (*r, c.mul(y))),
+            );
         }
         terms.sort_unstable_by_key(|(r, _)| *r);
         let mut out: Vec<(usize, Q)> = Vec::with_capacity(terms.len());
@@ -329,14 +339,18 @@ mod tests {
     }
 
     /// Σ m_i r_i over the reactions stored in `all`.
-    fn recombine(all: &[Vec<(u32, Ratio<i64>)>], combo: &[(usize, BigRational)]) -> Vec<(u32, BigRational)> {
+    fn recombine(
+        all: &[Vec<(u32, Ratio<i64>)>],
+        combo: &[(usize, BigRational)],
+    ) -> Vec<(u32, BigRational)> {
         let mut acc: HashMap<u32, BigRational> = HashMap::new();
         for (r, m) in combo {
             for (s, c) in &all[*r] {
                 *acc.entry(*s).or_insert_with(BigRational::zero) += m * big(c);
             }
         }
-        let mut v: Vec<(u32, BigRational)> = acc.into_iter().filter(|(_, c)| !c.is_zero()).collect();
+        let mut v: Vec<(u32, BigRational)> =
+            acc.into_iter().filter(|(_, c)| !c.is_zero()).collect();
         v.sort_by_key(|(s, _)| *s);
         v
     }
@@ -346,7 +360,8 @@ mod tests {
         for (s, c) in v {
             *acc.entry(*s).or_insert_with(BigRational::zero) += big(c);
         }
-        let mut out: Vec<(u32, BigRational)> = acc.into_iter().filter(|(_, c)| !c.is_zero()).collect();
+        let mut out: Vec<(u32, BigRational)> =
+            acc.into_iter().filter(|(_, c)| !c.is_zero()).collect();
         out.sort_by_key(|(s, _)| *s);
         out
     }
@@ -478,7 +493,12 @@ mod tests {
             let all: Vec<Vec<(u32, Ratio<i64>)>> = (0..n)
                 .map(|_| {
                     (0..2 + rng.below(4))
-                        .map(|_| (rng.below(u64::from(species)) as u32, q(rng.below(7) as i64 - 3)))
+                        .map(|_| {
+                            (
+                                rng.below(u64::from(species)) as u32,
+                                q(rng.below(7) as i64 - 3),
+                            )
+                        })
                         .collect()
                 })
                 .collect();
@@ -510,8 +530,14 @@ mod tests {
         let (k3, s3) = canonical_key(&dbl);
         assert_eq!(k1, k2);
         assert_eq!(k1, k3);
-        assert_eq!(k1, vec![(1, BigRational::one()), (3, bq(1, 2)), (5, bq(-1, 1))]);
+        assert_eq!(
+            k1,
+            vec![(1, BigRational::one()), (3, bq(1, 2)), (5, bq(-1, 1))]
+        );
         assert_eq!((s1, s2, s3), (bq(-2, 1), bq(2, 1), bq(-4, 1)));
-        assert_eq!(canonical_key(&[(1, q(1)), (1, q(-1))]), (vec![], BigRational::zero()));
+        assert_eq!(
+            canonical_key(&[(1, q(1)), (1, q(-1))]),
+            (vec![], BigRational::zero())
+        );
     }
 }

@@ -5,11 +5,12 @@
 //! and ΔrG°, ΔrH° (stated or from formation data). On a unit: its SI
 //! factor and dimension. On a finding: its rule and what the rule checks.
 
-use super::chemistry::{self, Formation, KBasis};
+use super::chemistry;
 use super::navigation::{Item, item_at, statement_at};
 use super::snapshot::Snapshot;
 use crate::chem::formula::{Phase, SpeciesKind, parse_formula};
 use crate::model::{Library, Reaction, Species, SpeciesId};
+use crate::reaction_k::ReactionK;
 use crate::syntax::ast::{Name, Statement};
 use crate::syntax::line_index::Encoding;
 use tower_lsp_server::ls_types as lsp;
@@ -214,6 +215,18 @@ pub fn species_text(_lib: &Library, s: &Species) -> String {
     out
 }
 
+/// The temperatures of the library's mixtures, sorted, each once.
+pub fn mixture_temperatures(lib: &Library) -> Vec<f64> {
+    let mut temps: Vec<f64> = lib
+        .mixtures
+        .iter()
+        .filter_map(|m| m.temperature_k)
+        .collect();
+    temps.sort_by(f64::total_cmp);
+    temps.dedup();
+    temps
+}
+
 /// The hover text of a reaction.
 pub fn reaction_text(snap: &Snapshot, lib: &Library, r: &Reaction) -> String {
     let ws = snap.workspace();
@@ -228,62 +241,49 @@ pub fn reaction_text(snap: &Snapshot, lib: &Library, r: &Reaction) -> String {
     }
     let mut lines = vec![
         format!("`{}`", chemistry::k_expression(lib, r)),
-        format!(
-            "Δn(gas) = {}",
-            chemistry::ratio_text(&chemistry::delta_n_gas(lib, r))
-        ),
+        format!("Δn(gas) = {}", chemistry::delta_n_gas_text(lib, r)),
     ];
-    for k in &r.k {
+    let rk = ReactionK::of(lib, r);
+    for p in &rk.stated {
+        let Some(k) = p.k_index.and_then(|i| r.k.get(i)) else {
+            continue;
+        };
         let mut line = format!(
             "{} = {} at {} K",
             k.form.name(),
             chemistry::number(k.number),
             chemistry::number(k.at_k)
         );
-        if k.form != crate::model::KForm::K
-            && let Some(ln) = chemistry::ln_k_of(lib, r, k)
-        {
-            line.push_str(&format!(" (K = {})", chemistry::number(ln.exp())));
+        if k.form != crate::model::KForm::K {
+            line.push_str(&format!(" (K = {})", chemistry::number(p.ln_k.exp())));
         }
         lines.push(line);
     }
-    for (sym, stated, which) in [
-        ("ΔrG°", &r.dg, Formation::Gibbs),
-        ("ΔrH°", &r.dh, Formation::Enthalpy),
-    ] {
-        if let Some(d) = stated.first() {
-            lines.push(format!(
-                "{sym} = {} at {} K (stated)",
-                kj(d.value),
-                chemistry::number(d.at_k)
-            ));
-        } else if let Some(v) = chemistry::reaction_from_formation(lib, r, which) {
-            lines.push(format!(
-                "{sym} = {} at 298.15 K (from formation data)",
-                kj(v)
-            ));
+    let row = crate::report::row(ws, lib, r, None);
+    let at = chemistry::number(row.temperature_k);
+    if let Some(dg) = row.dg_kj_per_mol {
+        lines.push(format!("ΔrG° = {} kJ/mol at {at} K", chemistry::number(dg)));
+    }
+    if let Some(dh) = row.dh_kj_per_mol {
+        lines.push(format!("ΔrH° = {} kJ/mol at {at} K", chemistry::number(dh)));
+    }
+    if let (Some(k), Some(src)) = (row.k, &row.source) {
+        lines.push(format!("K({at} K) = {} (from {src})", chemistry::number(k)));
+    }
+    for t in mixture_temperatures(lib) {
+        let row = crate::report::row(ws, lib, r, Some(t));
+        match (row.k, &row.source, &row.note) {
+            (Some(k), Some(src), _) => lines.push(format!(
+                "K({} K) = {} (from {src})",
+                chemistry::number(t),
+                chemistry::number(k)
+            )),
+            (_, _, Some(note)) => lines.push(format!("K({} K): {note}", chemistry::number(t))),
+            _ => {}
         }
     }
-    let mut temps: Vec<f64> = lib
-        .mixtures
-        .iter()
-        .filter_map(|m| m.temperature_k)
-        .collect();
-    temps.sort_by(f64::total_cmp);
-    temps.dedup();
-    for t in temps {
-        if let Some((ln, basis)) = chemistry::ln_k_at(lib, r, t) {
-            let how = match basis {
-                KBasis::Stated => "stated",
-                KBasis::VantHoff => "van 't Hoff, constant ΔrH°",
-                KBasis::Formation => "from ΔrG°",
-            };
-            lines.push(format!(
-                "K({} K) = {} ({how})",
-                chemistry::number(t),
-                chemistry::number(ln.exp())
-            ));
-        }
+    if let Some(note) = &row.note {
+        lines.push(note.clone());
     }
     out.push_str("\n\n");
     out.push_str(&lines.join("  \n"));

@@ -3,13 +3,17 @@
 //!
 //! After each equation: Δn(gas) and the K expression, then K at each
 //! mixture temperature of the library where it can be computed. After each
-//! K line given as Kc, Kp, logK or pK: the dimensionless K it means.
+//! K line given as Kc, Kp, logK or pK: the dimensionless K it means. After
+//! each species line of a mixture: its equilibrium amount. The numbers are
+//! those of `stoik report` and `stoik solve` ([`crate::report`],
+//! [`crate::solve`]).
 //! Only the statements inside the requested range are visited, so hints
 //! for a screenful of a large file cost a screenful of work.
 
-use super::chemistry::{self, KBasis};
+use super::chemistry;
 use super::snapshot::Snapshot;
 use crate::model::KForm;
+use crate::reaction_k::ReactionK;
 use crate::syntax::line_index::Encoding;
 use tower_lsp_server::ls_types as lsp;
 
@@ -33,13 +37,8 @@ pub fn inlay_hints(snap: &Snapshot, range: lsp::Range, encoding: Encoding) -> Ve
     let Some(lib) = snap.library().map(|l| &l.library) else {
         return Vec::new();
     };
-    let mut temps: Vec<f64> = lib
-        .mixtures
-        .iter()
-        .filter_map(|m| m.temperature_k)
-        .collect();
-    temps.sort_by(f64::total_cmp);
-    temps.dedup();
+    let ws = snap.workspace();
+    let temps = super::hover::mixture_temperatures(lib);
     // Reactions are in file order within each file; find the first one
     // that can reach the range.
     let start = lib.reactions.partition_point(|r| {
@@ -57,43 +56,104 @@ pub fn inlay_hints(snap: &Snapshot, range: lsp::Range, encoding: Encoding) -> Ve
             continue;
         }
         let at = text.position(r.equation_loc.span.end);
-        let dn = chemistry::ratio_text(&chemistry::delta_n_gas(lib, r));
         out.push(hint(
             at,
-            format!("Δn(gas) = {dn}; {}", chemistry::k_expression(lib, r)),
+            format!(
+                "Δn(gas) = {}; {}",
+                chemistry::delta_n_gas_text(lib, r),
+                chemistry::k_expression(lib, r)
+            ),
             Some("species of activity 1 (pure solids and liquids, hv, M, e-) are left out".into()),
         ));
+        let rk = ReactionK::of(lib, r);
         for t in &temps {
-            if let Some((ln, basis)) = chemistry::ln_k_at(lib, r, *t)
-                && basis != KBasis::Stated
-            {
+            if rk.stated.iter().any(|p| (p.t - t).abs() < 1e-9) {
+                continue;
+            }
+            let row = crate::report::row(ws, lib, r, Some(*t));
+            if let (Some(k), Some(src)) = (row.k, row.source) {
                 out.push(hint(
                     at,
-                    format!(
-                        "K({} K) = {}",
-                        chemistry::number(*t),
-                        chemistry::number(ln.exp())
-                    ),
-                    Some("at a mixture temperature, with constant ΔrH° (van 't Hoff)".into()),
+                    format!("K({} K) = {}", chemistry::number(*t), chemistry::number(k)),
+                    Some(format!("at a mixture temperature, from {src}")),
                 ));
             }
         }
-        for k in &r.k {
+        for p in &rk.stated {
+            let Some(k) = p.k_index.and_then(|i| r.k.get(i)) else {
+                continue;
+            };
             if k.form == KForm::K || k.loc.span.end < span.start || k.loc.span.start > span.end {
                 continue;
             }
-            if let Some(ln) = chemistry::ln_k_of(lib, r, k) {
-                out.push(hint(
-                    text.position(k.loc.span.end),
-                    format!(
-                        "K({} K) = {}",
-                        chemistry::number(k.at_k),
-                        chemistry::number(ln.exp())
-                    ),
-                    Some(format!("the dimensionless K this {} means", k.form.name())),
-                ));
-            }
+            out.push(hint(
+                text.position(k.loc.span.end),
+                format!(
+                    "K({} K) = {}",
+                    chemistry::number(p.t),
+                    chemistry::number(p.ln_k.exp())
+                ),
+                Some(format!("the dimensionless K this {} means", k.form.name())),
+            ));
         }
     }
+    mixture_hints(snap, lib, span, &mut out, encoding);
     out
+}
+
+/// The equilibrium amount beside each species line of the mixtures in the
+/// range, or why the mixture has none.
+fn mixture_hints(
+    snap: &Snapshot,
+    lib: &crate::model::Library,
+    span: crate::span::Span,
+    out: &mut Vec<lsp::InlayHint>,
+    encoding: Encoding,
+) {
+    let text = snap.text(encoding);
+    let ws = snap.workspace();
+    let statements = &snap.source().syntax.statements;
+    for m in lib.mixtures.iter().filter(|m| m.loc.file == snap.file) {
+        if m.loc.span.end < span.start || m.loc.span.start > span.end {
+            continue;
+        }
+        let Some(result) = crate::solve::solve_mixture(ws, lib, m) else {
+            continue;
+        };
+        let Some(statement) = statements.iter().find(|s| s.span.start == m.loc.span.start) else {
+            continue;
+        };
+        if !result.converged {
+            let why = result
+                .why
+                .clone()
+                .unwrap_or_else(|| "the solver did not converge".into());
+            out.push(hint(
+                text.position(statement.keyword.end),
+                format!("no equilibrium: {why}"),
+                None,
+            ));
+            continue;
+        }
+        for entry in &m.entries {
+            let Some(s) = result.species.iter().find(|s| s.name == entry.name) else {
+                continue;
+            };
+            let Some(attr) = statement
+                .attributes
+                .iter()
+                .find(|a| a.name.span == entry.name_loc.span)
+            else {
+                continue;
+            };
+            out.push(hint(
+                text.position(attr.span.end),
+                format!("⇌ {} {}", chemistry::number(s.equilibrium), s.unit),
+                Some(format!(
+                    "equilibrium at {} K",
+                    chemistry::number(result.temperature_k)
+                )),
+            ));
+        }
+    }
 }
