@@ -584,3 +584,45 @@ async fn bad_requests_do_not_stop_the_server() {
     assert!(!d.is_empty());
     c.shutdown().await;
 }
+
+#[tokio::test(flavor = "multi_thread", worker_threads = 2)]
+async fn mixture_lines_get_their_equilibrium_amounts() {
+    // N2O4 <=> 2 NO2 with K = 0.15 (invented); from 1 mol/L N2O4 at
+    // 298.15 K. The check is the equilibrium condition itself, K = (c(NO2)
+    // RT/p°)^2 / (c(N2O4) RT/p°) with c in mol/m3 (ideal gas), on the
+    // numbers the hints show.
+    let text = "reaction: N2O4(g) <=> 2 NO2(g)\n  K = 0.15 at 298.15 K\nmixture m\n  temperature = 298.15 K\n  N2O4(g) = 1 mol/L\n  NO2(g) = 0 mol/L\n";
+    let mut c = Client::start(&[]).await;
+    c.open("a.stoik", text).await;
+    let hints = c
+        .request(
+            "textDocument/inlayHint",
+            json!({"textDocument": doc(&c, "a.stoik"), "range": {"start": {"line": 0, "character": 0}, "end": {"line": 7, "character": 0}}}),
+        )
+        .await;
+    let amount = |line: u64| -> f64 {
+        let h = hints
+            .as_array()
+            .expect("hints")
+            .iter()
+            .find(|h| h["position"]["line"] == line)
+            .unwrap_or_else(|| panic!("a hint on line {line}: {hints}"));
+        let label = h["label"].as_str().unwrap_or_default();
+        label
+            .trim_start_matches("⇌ ")
+            .split(' ')
+            .next()
+            .and_then(|x| x.parse().ok())
+            .unwrap_or_else(|| panic!("a number in {label}"))
+    };
+    let (n2o4, no2) = (amount(4), amount(5));
+    let a = |c_mol_per_l: f64| c_mol_per_l * 1000.0 * R * 298.15 / 1.0e5;
+    let k = a(no2).powi(2) / a(n2o4);
+    assert!(
+        (k / 0.15 - 1.0).abs() < 2e-3,
+        "K from the hints = {k} ({n2o4}, {no2})"
+    );
+    // Nitrogen is conserved: 2 c(N2O4) + c(NO2) = 2 mol/L.
+    assert!((2.0 * n2o4 + no2 - 2.0).abs() < 2e-3, "{n2o4} {no2}");
+    c.shutdown().await;
+}
