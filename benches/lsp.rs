@@ -1,0 +1,136 @@
+//! Language-server speed on a generated 20,000-reaction library: the work
+//! of one edit (apply the change, re-analyse the whole file, convert the
+//! diagnostics) and the inlay hints of one screenful.
+//!
+//! The bars (DESIGN.md): edit-to-diagnostics under 50 ms, inlay hints for
+//! a visible range under 10 ms.
+
+use criterion::{Criterion, criterion_group, criterion_main};
+use std::collections::HashMap;
+use std::hint::black_box;
+use std::path::{Path, PathBuf};
+use stoik::config::Config;
+use stoik::lsp::convert::RuleDocs;
+use stoik::lsp::documents::{Change, apply};
+use stoik::lsp::snapshot::build_with;
+use stoik::syntax::line_index::{Encoding, Position};
+use tower_lsp_server::ls_types as lsp;
+
+/// An invented library of distinct reactions: dehydrogenations with K and
+/// dH, chlorinations with Arrhenius rate constants, and a mixture.
+fn library(reactions: usize) -> String {
+    let mut s = String::from("units energy = kJ/mol, temperature = K\n\n");
+    for i in 0..reactions {
+        let n = i / 2 + 1;
+        if i % 2 == 0 {
+            s.push_str(&format!(
+                "reaction d{n}: C{n}H{}(g) <=> C{n}H{}(g) + H2(g)\n  K = 1.0e-3 at 700 K\n  dH = 120.5 kJ/mol\n",
+                2 * n + 2,
+                2 * n
+            ));
+        } else {
+            s.push_str(&format!(
+                "reaction c{n}: C{n}H{}(g) + Cl2(g) -> C{n}H{}Cl(g) + HCl(g)\n  k = arrhenius(A = 1.0e9 L/(mol*s), n = 0, Ea = 10 kJ/mol)\n",
+                2 * n + 2,
+                2 * n + 1
+            ));
+        }
+    }
+    s.push_str("\nmixture feed\n  temperature = 800 K\n  C1H4(g) = 1 mol/L\n  C1H2(g) = 0 mol/L\n  H2(g) = 0 mol/L\n");
+    s
+}
+
+fn bench(c: &mut Criterion) {
+    let path = PathBuf::from("/stoik-bench/big.stoik");
+    let root = Path::new("/stoik-bench");
+    let text = library(20_000);
+    let lines = text.lines().count() as u32;
+    let docs = RuleDocs::default();
+    let mut group = c.benchmark_group("lsp");
+    group.sample_size(20);
+
+    // One keystroke in the middle of the file, then the whole analysis.
+    let mut version = 1;
+    let mut doc = text.clone();
+    group.bench_function("edit_to_diagnostics_20000_reactions", |b| {
+        b.iter(|| {
+            version += 1;
+            let at = Position {
+                line: lines / 2,
+                column: 0,
+            };
+            let change = Change {
+                range: Some((at, at)),
+                text: if version % 2 == 0 { "#" } else { "" }.to_string(),
+            };
+            apply(&mut doc, &change, Encoding::Utf16);
+            let mut texts = HashMap::new();
+            texts.insert(path.clone(), doc.clone());
+            let snap = build_with(&path, version, texts, root, Config::default(), None)
+                .expect("the overlay serves the file");
+            let diags = stoik::lsp::server::document_diagnostics(&snap, Encoding::Utf16, &docs);
+            black_box(diags.len())
+        })
+    });
+
+    let mut texts = HashMap::new();
+    texts.insert(path.clone(), text.clone());
+    let snap = build_with(&path, 1, texts, root, Config::default(), None).expect("snapshot");
+    let middle = lines / 2;
+    let range = lsp::Range::new(
+        lsp::Position::new(middle, 0),
+        lsp::Position::new(middle + 60, 0),
+    );
+    group.bench_function("inlay_hints_60_lines", |b| {
+        b.iter(|| {
+            black_box(stoik::lsp::inlay_hints::inlay_hints(
+                &snap,
+                range,
+                Encoding::Utf16,
+            ))
+        })
+    });
+
+    // The core's synthetic library (many consistent cycles, 1% planted
+    // mistakes): the top file is edited, the files it uses come from the
+    // same overlay.
+    let generated = stoik::synthetic::generate(&stoik::synthetic::Recipe {
+        reactions: 20_000,
+        mistakes: 0.01,
+        files: 1,
+        seed: 7,
+    });
+    let files: Vec<(PathBuf, String)> = generated
+        .files
+        .iter()
+        .map(|(p, t)| (root.join(p), t.clone()))
+        .collect();
+    let top = files[0].0.clone();
+    let mut top_text = files[0].1.clone();
+    let mut version = 1;
+    group.bench_function("edit_to_diagnostics_synthetic_20000_reactions", |b| {
+        b.iter(|| {
+            version += 1;
+            let at = Position { line: 0, column: 0 };
+            let change = Change {
+                range: Some((at, at)),
+                text: if version % 2 == 0 { "#\n" } else { "" }.to_string(),
+            };
+            if version % 2 == 0 {
+                apply(&mut top_text, &change, Encoding::Utf16);
+            } else {
+                top_text = top_text.trim_start_matches("#\n").to_string();
+            }
+            let mut texts: HashMap<PathBuf, String> = files.iter().cloned().collect();
+            texts.insert(top.clone(), top_text.clone());
+            let snap = build_with(&top, version, texts, root, Config::default(), None)
+                .expect("the overlay serves the files");
+            let diags = stoik::lsp::server::document_diagnostics(&snap, Encoding::Utf16, &docs);
+            black_box(diags.len())
+        })
+    });
+    group.finish();
+}
+
+criterion_group!(benches, bench);
+criterion_main!(benches);
