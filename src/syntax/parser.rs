@@ -82,9 +82,9 @@ impl<'t> Parser<'t> {
     }
 
     fn line(&mut self, lexemes: &[Lexeme], line_no: usize) {
-        // A byte order mark at the start of the file is no indentation.
+        // A byte order mark (U+FEFF, zero width) is no indentation.
         let indented = matches!(lexemes.first(), Some(l) if l.token == Token::Space
-            && !(l.span.start == 0 && self.text[l.span.range()] == *"\u{feff}"));
+            && !self.text[l.span.range()].chars().all(|c| c == '\u{feff}'));
         let mut tokens: Vec<Lexeme> = Vec::with_capacity(lexemes.len());
         for l in lexemes {
             match l.token {
