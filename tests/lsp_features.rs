@@ -626,3 +626,42 @@ async fn mixture_lines_get_their_equilibrium_amounts() {
     assert!((2.0 * n2o4 + no2 - 2.0).abs() < 2e-3, "{n2o4} {no2}");
     c.shutdown().await;
 }
+
+#[tokio::test(flavor = "multi_thread", worker_threads = 2)]
+async fn formatting_gives_the_same_text_as_stoik_fmt() {
+    let mut c = Client::start(&[]).await;
+    let text = "reaction  shift:  CO(g) +   H2O(g)  <=>  CO2(g) + H2(g)\n   K=1e5   # note\n  dH   = -41.2 kJ/mol\n";
+    c.open("f.stoik", text).await;
+    let edits = c
+        .request(
+            "textDocument/formatting",
+            json!({"textDocument": doc(&c, "f.stoik"), "options": {"tabSize": 2, "insertSpaces": true}}),
+        )
+        .await;
+    let edits = edits.as_array().unwrap_or_else(|| panic!("not edits: {edits}"));
+    assert_eq!(edits.len(), 1, "{edits:?}");
+    assert_eq!(
+        edits[0]["new_text"]
+            .as_str()
+            .or(edits[0]["newText"].as_str()),
+        Some(stoik::format::format(text).as_str())
+    );
+    assert_eq!(
+        edits[0]["range"]["start"],
+        json!({"line": 0, "character": 0})
+    );
+    // An already formatted document needs no edit.
+    let formatted = stoik::format::format(text);
+    c.open("g.stoik", &formatted).await;
+    let none = c
+        .request(
+            "textDocument/formatting",
+            json!({"textDocument": doc(&c, "g.stoik"), "options": {"tabSize": 2, "insertSpaces": true}}),
+        )
+        .await;
+    assert!(
+        none.is_null() || none.as_array().is_some_and(Vec::is_empty),
+        "{none}"
+    );
+    c.shutdown().await;
+}

@@ -378,6 +378,7 @@ impl LanguageServer for Backend {
                 ..Default::default()
             })),
             folding_range_provider: Some(FoldingRangeProviderCapability::Simple(true)),
+            document_formatting_provider: Some(OneOf::Left(true)),
             semantic_tokens_provider: Some(
                 SemanticTokensServerCapabilities::SemanticTokensOptions(SemanticTokensOptions {
                     legend: super::semantic_tokens::legend(),
@@ -699,6 +700,28 @@ impl LanguageServer for Backend {
         Ok(guarded("semantic tokens", || {
             SemanticTokensResult::Tokens(super::semantic_tokens::tokens(&snap, encoding))
         }))
+    }
+
+    async fn formatting(&self, params: DocumentFormattingParams) -> Result<Option<Vec<TextEdit>>> {
+        let Some(snap) = self.snapshot(&params.text_document.uri).await else {
+            return Ok(None);
+        };
+        let encoding = self.encoding();
+        Ok(guarded("formatting", || {
+            let source = snap.source();
+            let formatted = crate::format::format(&source.text);
+            if formatted == source.text {
+                return Vec::new();
+            }
+            // One edit replacing the whole document, computed by the same
+            // formatter as `stoik fmt`.
+            let text = text_of(&snap, encoding);
+            vec![TextEdit {
+                range: text.range(crate::span::Span::new(0, source.text.len())),
+                new_text: formatted,
+            }]
+        })
+        .filter(|edits| !edits.is_empty()))
     }
 
     async fn folding_range(&self, params: FoldingRangeParams) -> Result<Option<Vec<FoldingRange>>> {
