@@ -339,7 +339,14 @@ impl CycleFinder {
                 return None;
             }
         }
-        let mut terms: Vec<(usize, i128)> = Vec::new();
+        let total: usize = used
+            .iter()
+            .map(|(k, _)| match &self.basis[*k].combination {
+                Combination::Scaled(_, numerators) => numerators.len(),
+                Combination::Exact(terms) => terms.len(),
+            })
+            .sum();
+        let mut terms: Vec<(usize, i128)> = Vec::with_capacity(total);
         for (k, c) in used {
             let (Q::Small(c), Combination::Scaled(d, numerators)) =
                 (c, &self.basis[*k].combination)
