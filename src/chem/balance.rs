@@ -10,7 +10,7 @@
 use num_bigint::BigInt;
 use num_integer::Integer;
 use num_rational::{BigRational, Ratio};
-use num_traits::{One, Signed, Zero};
+use num_traits::{CheckedAdd, CheckedMul, One, Signed, Zero};
 
 use super::elements;
 use super::formula::{Formula, SpeciesKind};
@@ -86,6 +86,36 @@ pub(crate) fn big(r: &Ratio<i64>) -> BigRational {
 
 fn in_balance(f: &Formula) -> bool {
     !matches!(f.kind, SpeciesKind::ThirdBody | SpeciesKind::Photon)
+}
+
+/// Whether signed terms (as for [`residuals`]) balance in every element and
+/// in charge, computed exactly on machine integers: `Some(answer)` when every
+/// product and sum fits in `i128` rationals, `None` (and the caller takes
+/// the big-number path of [`residuals`]) when one does not. This is the fast
+/// path for the common case of small stoichiometric coefficients.
+pub fn balanced_small(terms: &[(Ratio<i64>, &Formula)]) -> Option<bool> {
+    let wide = |r: &Ratio<i64>| -> Option<Ratio<i128>> {
+        (*r.denom() != 0).then(|| Ratio::new(i128::from(*r.numer()), i128::from(*r.denom())))
+    };
+    // Net amounts (right minus left) per element, and the net charge.
+    let mut net: Vec<(u8, Ratio<i128>)> = Vec::new();
+    let mut charge = Ratio::<i128>::zero();
+    for (coefficient, formula) in terms {
+        if !in_balance(formula) || coefficient.is_zero() {
+            continue;
+        }
+        let c = wide(coefficient)?;
+        for (z, n) in &formula.composition {
+            let add = c.checked_mul(&wide(n)?)?;
+            match net.iter_mut().find(|(e, _)| e == z) {
+                Some((_, total)) => *total = total.checked_add(&add)?,
+                None => net.push((*z, add)),
+            }
+        }
+        charge = charge
+            .checked_add(&c.checked_mul(&Ratio::from_integer(i128::from(formula.charge)))?)?;
+    }
+    Some(charge.is_zero() && net.iter().all(|(_, total)| total.is_zero()))
 }
 
 /// Element and charge totals for signed terms: a negative coefficient puts

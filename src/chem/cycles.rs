@@ -46,14 +46,15 @@ use super::balance::big;
 #[derive(Clone, Debug, PartialEq)]
 enum Q {
     Small(Ratio<i64>),
-    Big(BigRational),
+    /// Boxed so that the common small case keeps `Q` at 24 bytes.
+    Big(Box<BigRational>),
 }
 
 impl Q {
     fn from_big(b: BigRational) -> Q {
         match (b.numer().to_i64(), b.denom().to_i64()) {
             (Some(n), Some(d)) => Q::Small(Ratio::new_raw(n, d)),
-            _ => Q::Big(b),
+            _ => Q::Big(Box::new(b)),
         }
     }
 
@@ -62,7 +63,7 @@ impl Q {
             // Small values are kept reduced with a positive denominator, so
             // no gcd is needed.
             Q::Small(r) => BigRational::new_raw(BigInt::from(*r.numer()), BigInt::from(*r.denom())),
-            Q::Big(b) => b.clone(),
+            Q::Big(b) => (**b).clone(),
         }
     }
 
@@ -158,10 +159,37 @@ struct BasisVector {
     /// Species coefficients, sorted by id; the pivot's coefficient is 1.
     entries: Vec<(u32, Q)>,
     /// This vector as a combination of original reactions, sorted by id.
-    combination: Vec<(usize, Q)>,
-    /// The same combination as integer numerators over one common
-    /// denominator, when that fits in `i64`: the fast path of `expand`.
-    scaled: Option<(i64, Vec<(usize, i64)>)>,
+    combination: Combination,
+}
+
+/// The multipliers of a basis vector in terms of original reactions,
+/// sorted by reaction id. Only one form is stored, which keeps the basis
+/// small: integer numerators over one common denominator when that fits in
+/// `i64` (the fast path of `expand`), exact rationals otherwise.
+enum Combination {
+    Scaled(i64, Vec<(usize, i64)>),
+    Exact(Vec<(usize, Q)>),
+}
+
+impl Combination {
+    fn new(terms: Vec<(usize, Q)>) -> Combination {
+        match scale_combination(&terms) {
+            Some((den, numerators)) => Combination::Scaled(den, numerators),
+            None => Combination::Exact(terms),
+        }
+    }
+
+    /// Appends `c · m` for every term `m` of the combination to `out`.
+    fn push_times(&self, c: &Q, out: &mut Vec<(usize, Q)>) {
+        match self {
+            Combination::Scaled(den, numerators) => out.extend(numerators.iter().map(|(r, y)| {
+                // The common denominator is positive, so `Ratio::new`
+                // leaves the value reduced with a positive denominator.
+                (*r, c.mul(&Q::Small(Ratio::new(*y, *den))))
+            })),
+            Combination::Exact(terms) => out.extend(terms.iter().map(|(r, y)| (*r, c.mul(y)))),
+        }
+    }
 }
 
 /// A combination as integer numerators over a common denominator.
@@ -287,12 +315,10 @@ impl CycleFinder {
         });
         combination.retain(|(_, m)| !m.is_zero());
         self.pivot_of.insert(pivot, self.basis.len());
-        let scaled = scale_combination(&combination);
         self.basis.push(BasisVector {
             pivot,
             entries,
-            combination,
-            scaled,
+            combination: Combination::new(combination),
         });
         None
     }
@@ -304,7 +330,7 @@ impl CycleFinder {
     fn expand_scaled(&self, used: &[(usize, Q)]) -> Option<Vec<(usize, Q)>> {
         let mut l: i128 = 1;
         for (k, c) in used {
-            let (Q::Small(c), Some((d, _))) = (c, &self.basis[*k].scaled) else {
+            let (Q::Small(c), Combination::Scaled(d, _)) = (c, &self.basis[*k].combination) else {
                 return None;
             };
             let den = i128::from(*c.denom()).checked_mul(i128::from(*d))?;
@@ -313,9 +339,18 @@ impl CycleFinder {
                 return None;
             }
         }
-        let mut terms: Vec<(usize, i128)> = Vec::new();
+        let total: usize = used
+            .iter()
+            .map(|(k, _)| match &self.basis[*k].combination {
+                Combination::Scaled(_, numerators) => numerators.len(),
+                Combination::Exact(terms) => terms.len(),
+            })
+            .sum();
+        let mut terms: Vec<(usize, i128)> = Vec::with_capacity(total);
         for (k, c) in used {
-            let (Q::Small(c), Some((d, numerators))) = (c, &self.basis[*k].scaled) else {
+            let (Q::Small(c), Combination::Scaled(d, numerators)) =
+                (c, &self.basis[*k].combination)
+            else {
                 return None;
             };
             let factor = i128::from(*c.numer())
@@ -351,12 +386,7 @@ impl CycleFinder {
         }
         let mut terms: Vec<(usize, Q)> = Vec::new();
         for (k, c) in used {
-            terms.extend(
-                self.basis[*k]
-                    .combination
-                    .iter()
-                    .map(|(r, y)| (*r, c.mul(y))),
-            );
+            self.basis[*k].combination.push_times(c, &mut terms);
         }
         terms.sort_unstable_by_key(|(r, _)| *r);
         let mut out: Vec<(usize, Q)> = Vec::with_capacity(terms.len());

@@ -127,7 +127,8 @@ pub fn run(
     for d in &analysis.diagnostics {
         summary.count(d.severity);
     }
-    let mut out = std::io::stdout().lock();
+    // Buffered, so that pretty JSON is not written a line at a time.
+    let mut out = std::io::BufWriter::new(std::io::stdout().lock());
     let written = match format {
         Format::Human => {
             let style = Style {
@@ -167,6 +168,7 @@ pub fn run(
                 .and_then(|_| writeln!(out))
         }
     };
+    let written = written.and_then(|()| out.flush());
     if let Err(e) = written
         && e.kind() != std::io::ErrorKind::BrokenPipe
     {

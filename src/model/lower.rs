@@ -810,6 +810,11 @@ impl<'w> Lowering<'w> {
                 )
             })
             .collect();
+        // Most equations balance with small coefficients: settle those on
+        // machine integers and keep the exact big path for the rest.
+        if crate::chem::balance::balanced_small(&signed) == Some(true) {
+            return ok;
+        }
         let res = residuals(&signed);
         let element_off: Vec<String> = res
             .elements
