@@ -638,7 +638,9 @@ async fn formatting_gives_the_same_text_as_stoik_fmt() {
             json!({"textDocument": doc(&c, "f.stoik"), "options": {"tabSize": 2, "insertSpaces": true}}),
         )
         .await;
-    let edits = edits.as_array().unwrap_or_else(|| panic!("not edits: {edits}"));
+    let edits = edits
+        .as_array()
+        .unwrap_or_else(|| panic!("not edits: {edits}"));
     assert_eq!(edits.len(), 1, "{edits:?}");
     assert_eq!(
         edits[0]["new_text"]
