@@ -51,23 +51,7 @@ pub fn run(equation: &str, format: DataFormat) -> i32 {
     let outcome = balance(&refs, eq.left.len());
     match outcome {
         BalanceOutcome::Unique(coefs) => {
-            let names: Vec<&str> = eq
-                .left
-                .iter()
-                .chain(&eq.right)
-                .map(|t| t.species.text.as_str())
-                .collect();
-            let term = |i: usize| {
-                if coefs[i] == 1.into() {
-                    names[i].to_string()
-                } else {
-                    format!("{} {}", coefs[i], names[i])
-                }
-            };
-            let n = eq.left.len();
-            let left: Vec<String> = (0..n).map(term).collect();
-            let right: Vec<String> = (n..names.len()).map(term).collect();
-            let text = format!("{} {arrow} {}", left.join(" + "), right.join(" + "));
+            let text = crate::model::lower::balanced_text(&eq, arrow, &coefs);
             match format {
                 DataFormat::Human => outln!("{text}"),
                 DataFormat::Json => {

@@ -24,6 +24,35 @@ pub const REACTION_ATTRIBUTES: &[&str] = &[
 ];
 /// The attributes a mixture takes besides its species lines.
 pub const MIXTURE_ATTRIBUTES: &[&str] = &["temperature", "pressure", "volume", "activity"];
+/// An equation rewritten with the given coefficients (1 left unwritten),
+/// species spelled as the user wrote them and in their order.
+pub fn balanced_text(
+    eq: &ast::Equation,
+    arrow: &str,
+    coefficients: &[num_bigint::BigInt],
+) -> String {
+    let render = |terms: &[ast::Term], coefs: &[num_bigint::BigInt]| {
+        terms
+            .iter()
+            .zip(coefs)
+            .map(|(t, c)| {
+                if *c == num_bigint::BigInt::from(1) {
+                    t.species.text.clone()
+                } else {
+                    format!("{c} {}", t.species.text)
+                }
+            })
+            .collect::<Vec<_>>()
+            .join(" + ")
+    };
+    let n = eq.left.len().min(coefficients.len());
+    format!(
+        "{} {arrow} {}",
+        render(&eq.left, &coefficients[..n]),
+        render(&eq.right, &coefficients[n..])
+    )
+}
+
 /// The most species an equation may have for stoik to search its balance.
 pub const MAX_BALANCE_SPECIES: usize = 64;
 
@@ -840,7 +869,7 @@ impl<'w> Lowering<'w> {
         if element_off.is_empty() && !charge_off {
             return ok;
         }
-        let fix = self.balance_fix(file, eq, r, &species);
+        let fix = self.balance_fix(file, eq, &species);
         if !element_off.is_empty() {
             let message = if element_off.len() == 1 {
                 format!("not balanced: {}", element_off[0])
@@ -887,7 +916,6 @@ impl<'w> Lowering<'w> {
         &self,
         file: FileId,
         eq: &ast::Equation,
-        r: &Reaction,
         species: &[&crate::chem::formula::Formula],
     ) -> Result<Fix, String> {
         // Third bodies and photons take no part in the balance.
@@ -902,30 +930,14 @@ impl<'w> Lowering<'w> {
             BalanceOutcome::Unique(coefficients) => {
                 let text = &self.ws.file(file).text;
                 let arrow = &text[eq.arrow.span.range()];
-                let render = |terms: &[ast::Term], coefs: &[num_bigint::BigInt]| {
-                    terms
-                        .iter()
-                        .zip(coefs)
-                        .map(|(t, c)| {
-                            if *c == num_bigint::BigInt::from(1) {
-                                t.species.text.clone()
-                            } else {
-                                format!("{c} {}", t.species.text)
-                            }
-                        })
-                        .collect::<Vec<_>>()
-                        .join(" + ")
-                };
-                let left = render(&eq.left, &coefficients[..n_left]);
-                let right = render(&eq.right, &coefficients[n_left..]);
-                let _ = r;
+                let balanced = balanced_text(eq, arrow, &coefficients);
                 Ok(Fix {
                     title: "balance the equation".into(),
                     applicability: Applicability::Safe,
                     edits: vec![TextEdit {
                         file,
                         span: eq.span,
-                        new_text: format!("{left} {arrow} {right}"),
+                        new_text: balanced,
                     }],
                 })
             }

@@ -605,19 +605,19 @@ impl<'t> Parser<'t> {
                 );
                 return None;
             }
+            if text.starts_with('+') && text.len() > 1 {
+                self.error(
+                    Span::new(l.span.start, l.span.start + 1),
+                    "the `+` that joins two terms needs whitespace on both sides",
+                    Some("write `A + B`; a `+` touching a formula is read as a charge".into()),
+                );
+                ok = false;
+                i += 1;
+                continue;
+            }
             if expect_term {
                 if text == "+" {
                     self.error(l.span, "a `+` with no term before it", None);
-                    ok = false;
-                    i += 1;
-                    continue;
-                }
-                if text.starts_with('+') && text.len() > 1 {
-                    self.error(
-                        Span::new(l.span.start, l.span.start + 1),
-                        "the `+` that joins two terms needs whitespace on both sides",
-                        Some("write `A + B`; a `+` touching a formula is read as a charge".into()),
-                    );
                     ok = false;
                     i += 1;
                     continue;
@@ -635,16 +635,6 @@ impl<'t> Parser<'t> {
                         self.error(l.span, "a `+` with no term after it", None);
                         ok = false;
                     }
-                    continue;
-                }
-                if text.starts_with('+') && text.len() > 1 {
-                    self.error(
-                        Span::new(l.span.start, l.span.start + 1),
-                        "the `+` that joins two terms needs whitespace on both sides",
-                        Some("write `A + B`; a `+` touching a formula is read as a charge".into()),
-                    );
-                    ok = false;
-                    i += 1;
                     continue;
                 }
                 let prev = items[i - 1].span;
