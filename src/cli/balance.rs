@@ -78,12 +78,7 @@ pub fn run(equation: &str, format: DataFormat) -> i32 {
             EXIT_FINDINGS
         }
         BalanceOutcome::Impossible(why) => {
-            let names: Vec<&str> = eq
-                .left
-                .iter()
-                .chain(&eq.right)
-                .map(|t| t.species.text.as_str())
-                .collect();
+            let names = eq.species_names();
             let message = format!("no balance exists: {}", why.message(&names));
             report_failure(format, &message, None);
             EXIT_FINDINGS

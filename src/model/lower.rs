@@ -945,12 +945,7 @@ impl<'w> Lowering<'w> {
                 "these species admit {independent} independent balances, so no single one is offered; fix the coefficients by hand"
             )),
             BalanceOutcome::Impossible(why) => {
-                let names: Vec<&str> = eq
-                    .left
-                    .iter()
-                    .chain(&eq.right)
-                    .map(|t| t.species.text.as_str())
-                    .collect();
+                let names = eq.species_names();
                 Err(format!("no balance exists: {}", why.message(&names)))
             }
         }

@@ -160,6 +160,17 @@ pub struct Term {
     pub span: Span,
 }
 
+impl Equation {
+    /// The species of both sides as written, left to right.
+    pub fn species_names(&self) -> Vec<&str> {
+        self.left
+            .iter()
+            .chain(&self.right)
+            .map(|t| t.species.text.as_str())
+            .collect()
+    }
+}
+
 impl Term {
     /// The coefficient, 1 when none is written.
     pub fn coefficient_value(&self) -> Ratio<i64> {
