@@ -12,7 +12,6 @@ use crate::diagnostic::Diagnostic;
 use crate::model::Library;
 use crate::units::constants::STANDARD_TEMPERATURE;
 use crate::workspace::Workspace;
-use num_traits::ToPrimitive;
 use std::collections::HashMap;
 
 fn reference_temperature(checked: &[&Checked]) -> f64 {
@@ -81,7 +80,7 @@ pub(super) fn check(
             continue;
         }
         ln_k[i] = estimate.ln_k;
-        let Some(combination) = finder.add(i, &v) else {
+        let Some(combination) = finder.add_f64(i, &v) else {
             continue;
         };
         // A single member is a duplicate, reverse or multiple: the pair
@@ -89,13 +88,10 @@ pub(super) fn check(
         if combination.len() < 2 {
             continue;
         }
-        let members: Vec<(usize, f64)> = combination
-            .iter()
-            .filter_map(|(j, m)| m.to_f64().map(|m| (*j, m)))
-            .collect();
-        if members.len() != combination.len() {
+        if combination.iter().any(|(_, m)| !m.is_finite()) {
             continue;
         }
+        let members = combination;
         let predicted: f64 = members.iter().map(|(j, m)| m * ln_k[*j]).sum();
         if (estimate.ln_k - predicted).abs() <= tolerance(predicted, rel) {
             continue;

@@ -3,17 +3,13 @@
 //! times n has K^n).
 
 use super::{Checked, k_text, number, temperature, tolerance};
-use crate::chem::cycles::canonical_key;
+use crate::chem::cycles::{CanonicalKey, canonical_key};
 use crate::diagnostic::{Applicability, Diagnostic, Fix, TextEdit};
 use crate::model::{KForm, Library};
 use crate::workspace::Workspace;
 use num_rational::BigRational;
 use num_traits::ToPrimitive;
 use std::collections::HashMap;
-
-/// A reaction's canonical stoichiometry: duplicates, reverses and multiples
-/// share it.
-type Key = Vec<(u32, BigRational)>;
 
 fn as_u32_vector(c: &Checked) -> Vec<(u32, num_rational::Ratio<i64>)> {
     c.reaction
@@ -50,7 +46,7 @@ pub(super) fn check(
     rel: f64,
     out: &mut Vec<Diagnostic>,
 ) {
-    let mut groups: HashMap<Key, Vec<(usize, BigRational)>> = HashMap::new();
+    let mut groups: HashMap<CanonicalKey, Vec<(usize, BigRational)>> = HashMap::new();
     for (i, c) in checked.iter().enumerate() {
         let v = as_u32_vector(c);
         if v.is_empty() {

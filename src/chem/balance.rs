@@ -94,6 +94,9 @@ fn in_balance(f: &Formula) -> bool {
 /// the big-number path of [`residuals`]) when one does not. This is the fast
 /// path for the common case of small stoichiometric coefficients.
 pub fn balanced_small(terms: &[(Ratio<i64>, &Formula)]) -> Option<bool> {
+    if let Some(answer) = balanced_integers(terms) {
+        return Some(answer);
+    }
     let wide = |r: &Ratio<i64>| -> Option<Ratio<i128>> {
         (*r.denom() != 0).then(|| Ratio::new(i128::from(*r.numer()), i128::from(*r.denom())))
     };
@@ -116,6 +119,32 @@ pub fn balanced_small(terms: &[(Ratio<i64>, &Formula)]) -> Option<bool> {
             .checked_add(&c.checked_mul(&Ratio::from_integer(i128::from(formula.charge)))?)?;
     }
     Some(charge.is_zero() && net.iter().all(|(_, total)| total.is_zero()))
+}
+
+/// [`balanced_small`] when every coefficient and count is an integer (the
+/// usual case): plain `i128` sums, no rationals. `None` when a value is
+/// fractional or a sum overflows.
+fn balanced_integers(terms: &[(Ratio<i64>, &Formula)]) -> Option<bool> {
+    let mut net: [i128; 128] = [0; 128];
+    let mut charge: i128 = 0;
+    for (coefficient, formula) in terms {
+        if !in_balance(formula) || coefficient.is_zero() {
+            continue;
+        }
+        if *coefficient.denom() != 1 {
+            return None;
+        }
+        let c = i128::from(*coefficient.numer());
+        for (z, n) in &formula.composition {
+            if *n.denom() != 1 {
+                return None;
+            }
+            let slot = net.get_mut(usize::from(*z))?;
+            *slot = slot.checked_add(c.checked_mul(i128::from(*n.numer()))?)?;
+        }
+        charge = charge.checked_add(c.checked_mul(i128::from(formula.charge))?)?;
+    }
+    Some(charge == 0 && net.iter().all(|total| *total == 0))
 }
 
 /// Element and charge totals for signed terms: a negative coefficient puts

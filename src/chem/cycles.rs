@@ -32,7 +32,9 @@
 //! numerators over a common denominator when that fits.
 
 use std::cmp::Reverse;
-use std::collections::{BinaryHeap, HashMap};
+use std::collections::BinaryHeap;
+#[cfg(test)]
+use std::collections::HashMap;
 
 use num_bigint::BigInt;
 use num_rational::{BigRational, Ratio};
@@ -122,38 +124,6 @@ impl Q {
     }
 }
 
-/// A fast multiplicative hasher for small integer keys (the keys are our
-/// own species and reaction ids, so hash flooding is not a concern).
-#[derive(Default, Clone, Copy)]
-struct IdHasher(u64);
-
-impl std::hash::Hasher for IdHasher {
-    fn finish(&self) -> u64 {
-        self.0
-    }
-
-    fn write(&mut self, bytes: &[u8]) {
-        for b in bytes {
-            self.0 =
-                (self.0.rotate_left(5) ^ u64::from(*b)).wrapping_mul(0x51_7c_c1_b7_27_22_0a_95);
-        }
-    }
-
-    fn write_u32(&mut self, n: u32) {
-        self.write_u64(u64::from(n));
-    }
-
-    fn write_u64(&mut self, n: u64) {
-        self.0 = (self.0.rotate_left(5) ^ n).wrapping_mul(0x51_7c_c1_b7_27_22_0a_95);
-    }
-
-    fn write_usize(&mut self, n: usize) {
-        self.write_u64(n as u64);
-    }
-}
-
-type IdMap<K, V> = HashMap<K, V, std::hash::BuildHasherDefault<IdHasher>>;
-
 struct BasisVector {
     pivot: u32,
     /// Species coefficients, sorted by id; the pivot's coefficient is 1.
@@ -212,9 +182,69 @@ fn scale_combination(combination: &[(usize, Q)]) -> Option<(i64, Vec<(usize, i64
 #[derive(Default)]
 pub struct CycleFinder {
     basis: Vec<BasisVector>,
-    pivot_of: IdMap<u32, usize>,
-    /// How many added reactions each species occurs in.
-    occurrences: IdMap<u32, u32>,
+    /// The basis vector whose pivot each species is (`NONE` when none),
+    /// indexed by species id.
+    pivot_of: Vec<u32>,
+    /// How many added reactions each species occurs in, by species id.
+    occurrences: Vec<u32>,
+    /// Scratch space reused from one `add` to the next, so that adding a
+    /// reaction allocates little.
+    scratch: Scratch,
+}
+
+/// No basis vector.
+const NONE: u32 = u32::MAX;
+
+#[derive(Default)]
+struct Scratch {
+    /// The vector being reduced, dense by species id, and which ids are set.
+    work: Vec<Option<Q>>,
+    touched: Vec<u32>,
+    heap: BinaryHeap<Reverse<usize>>,
+    /// Integer sums by reaction id for `expand_scaled`, and which are set.
+    sums: Vec<i128>,
+    summed: Vec<usize>,
+}
+
+impl Scratch {
+    fn slot(&mut self, s: u32) -> &mut Option<Q> {
+        let i = s as usize;
+        if i >= self.work.len() {
+            self.work.resize(i + 1, None);
+        }
+        if self.work[i].is_none() {
+            self.touched.push(s);
+        }
+        &mut self.work[i]
+    }
+
+    fn add_to(&mut self, s: u32, x: &Q) {
+        let slot = self.slot(s);
+        *slot = Some(match slot.take() {
+            Some(old) => old.add(x),
+            None => x.clone(),
+        });
+    }
+
+    fn get(&self, s: u32) -> Option<&Q> {
+        self.work
+            .get(s as usize)
+            .and_then(Option::as_ref)
+            .filter(|q| !q.is_zero())
+    }
+
+    /// The nonzero entries of the work vector, clearing it.
+    fn drain(&mut self) -> Vec<(u32, Q)> {
+        let mut out = Vec::with_capacity(self.touched.len());
+        for s in self.touched.drain(..) {
+            if let Some(q) = self.work[s as usize].take()
+                && !q.is_zero()
+            {
+                out.push((s, q));
+            }
+        }
+        out
+    }
 }
 
 impl CycleFinder {
@@ -225,6 +255,13 @@ impl CycleFinder {
     /// The number of independent reactions kept.
     pub fn rank(&self) -> usize {
         self.basis.len()
+    }
+
+    fn pivot_of(&self, s: u32) -> Option<usize> {
+        match self.pivot_of.get(s as usize) {
+            Some(&k) if k != NONE => Some(k as usize),
+            _ => None,
+        }
     }
 
     /// Adds reaction `reaction` with species coefficients `vector`.
@@ -240,60 +277,103 @@ impl CycleFinder {
         reaction: usize,
         vector: &[(u32, Ratio<i64>)],
     ) -> Option<Vec<(usize, BigRational)>> {
-        let mut work: IdMap<u32, Q> = IdMap::default();
+        self.add_exact(reaction, vector)
+            .map(|c| c.into_iter().map(|(r, m)| (r, m.to_big())).collect())
+    }
+
+    /// [`CycleFinder::add`] with the multipliers as `f64`, which is what a
+    /// comparison of ln K needs; it avoids building big rationals.
+    pub fn add_f64(
+        &mut self,
+        reaction: usize,
+        vector: &[(u32, Ratio<i64>)],
+    ) -> Option<Vec<(usize, f64)>> {
+        self.add_exact(reaction, vector).map(|c| {
+            c.into_iter()
+                .map(|(r, m)| {
+                    let x = match &m {
+                        Q::Small(q) => *q.numer() as f64 / *q.denom() as f64,
+                        Q::Big(b) => b.to_f64().unwrap_or(f64::NAN),
+                    };
+                    (r, x)
+                })
+                .collect()
+        })
+    }
+
+    fn add_exact(
+        &mut self,
+        reaction: usize,
+        vector: &[(u32, Ratio<i64>)],
+    ) -> Option<Vec<(usize, Q)>> {
+        let mut scratch = std::mem::take(&mut self.scratch);
+        let result = self.reduce_and_insert(&mut scratch, reaction, vector);
+        self.scratch = scratch;
+        result
+    }
+
+    fn reduce_and_insert(
+        &mut self,
+        scratch: &mut Scratch,
+        reaction: usize,
+        vector: &[(u32, Ratio<i64>)],
+    ) -> Option<Vec<(usize, Q)>> {
         for (s, c) in vector {
             if c.is_zero() {
                 continue;
             }
-            *self.occurrences.entry(*s).or_insert(0) += 1;
-            let slot = work.entry(*s).or_insert(Q::Small(Ratio::zero()));
-            *slot = slot.add(&Q::from_big(big(c)));
+            let i = *s as usize;
+            if i >= self.occurrences.len() {
+                self.occurrences.resize(i + 1, 0);
+            }
+            self.occurrences[i] += 1;
+            scratch.add_to(*s, &Q::from_big(big(c)));
         }
-        work.retain(|_, c| !c.is_zero());
-        let mut heap: BinaryHeap<Reverse<usize>> = work
-            .keys()
-            .filter_map(|s| self.pivot_of.get(s).map(|&k| Reverse(k)))
-            .collect();
+        scratch.heap.clear();
+        for &s in &scratch.touched {
+            if let Some(k) = self.pivot_of(s) {
+                scratch.heap.push(Reverse(k));
+            }
+        }
         // The basis vectors subtracted, with their multipliers.
         let mut used: Vec<(usize, Q)> = Vec::new();
         let mut last = None;
-        while let Some(Reverse(k)) = heap.pop() {
+        while let Some(Reverse(k)) = scratch.heap.pop() {
             if last == Some(k) {
                 continue;
             }
             last = Some(k);
             let b = &self.basis[k];
-            let Some(c) = work.get(&b.pivot).cloned() else {
+            let Some(c) = scratch.get(b.pivot).cloned() else {
                 continue;
             };
             let minus_c = c.neg();
             for (s, x) in &b.entries {
-                let slot = work.entry(*s).or_insert(Q::Small(Ratio::zero()));
-                *slot = slot.add(&minus_c.mul(x));
-                if slot.is_zero() {
-                    work.remove(s);
-                } else if *s != b.pivot
-                    && let Some(&j) = self.pivot_of.get(s)
+                scratch.add_to(*s, &minus_c.mul(x));
+                if *s != b.pivot
+                    && scratch.get(*s).is_some()
+                    && let Some(j) = self.pivot_of(*s)
                     && j > k
                 {
-                    heap.push(Reverse(j));
+                    scratch.heap.push(Reverse(j));
                 }
             }
             used.push((k, c));
         }
-        let used = self.expand(&used);
+        let used = self.expand(scratch, &used);
+        let work = scratch.drain();
         if work.is_empty() {
-            return Some(used.into_iter().map(|(r, m)| (r, m.to_big())).collect());
+            return Some(used);
         }
         // The rarest species becomes the pivot (Markowitz-style: few later
         // reactions will contain it); ties go to the largest id, which in a
         // file read in order is the newest species.
-        let pivot = work
-            .keys()
-            .copied()
-            .min_by_key(|s| (self.occurrences.get(s).copied().unwrap_or(0), Reverse(*s)))
-            .unwrap_or(0);
-        let scale = work.get(&pivot).map_or(Q::Small(Ratio::zero()), Q::recip);
+        let (pivot, pivot_c) = work
+            .iter()
+            .min_by_key(|(s, _)| (self.occurrences[*s as usize], Reverse(*s)))
+            .map(|(s, c)| (*s, c.clone()))
+            .unwrap_or((0, Q::Small(Ratio::zero())));
+        let scale = pivot_c.recip();
         let mut entries: Vec<(u32, Q)> =
             work.into_iter().map(|(s, c)| (s, c.mul(&scale))).collect();
         entries.sort_by_key(|(s, _)| *s);
@@ -314,7 +394,11 @@ impl CycleFinder {
             }
         });
         combination.retain(|(_, m)| !m.is_zero());
-        self.pivot_of.insert(pivot, self.basis.len());
+        let p = pivot as usize;
+        if p >= self.pivot_of.len() {
+            self.pivot_of.resize(p + 1, NONE);
+        }
+        self.pivot_of[p] = u32::try_from(self.basis.len()).unwrap_or(NONE);
         self.basis.push(BasisVector {
             pivot,
             entries,
@@ -324,10 +408,10 @@ impl CycleFinder {
     }
 
     /// `expand` on integers: every term c_k · y_kr is brought over the
-    /// common denominator L = lcm_k(den(c_k) · D_k) and summed as an `i128`.
-    /// Returns `None` (and the caller takes the rational path) when a value
-    /// does not fit.
-    fn expand_scaled(&self, used: &[(usize, Q)]) -> Option<Vec<(usize, Q)>> {
+    /// common denominator L = lcm_k(den(c_k) · D_k) and summed as an `i128`
+    /// in a dense table by reaction id. Returns `None` (and the caller
+    /// takes the rational path) when a value does not fit.
+    fn expand_scaled(&self, scratch: &mut Scratch, used: &[(usize, Q)]) -> Option<Vec<(usize, Q)>> {
         let mut l: i128 = 1;
         for (k, c) in used {
             let (Q::Small(c), Combination::Scaled(d, _)) = (c, &self.basis[*k].combination) else {
@@ -339,14 +423,20 @@ impl CycleFinder {
                 return None;
             }
         }
-        let total: usize = used
-            .iter()
-            .map(|(k, _)| match &self.basis[*k].combination {
-                Combination::Scaled(_, numerators) => numerators.len(),
-                Combination::Exact(terms) => terms.len(),
-            })
-            .sum();
-        let mut terms: Vec<(usize, i128)> = Vec::with_capacity(total);
+        let result = self.sum_scaled(scratch, used, l);
+        // Leave the table zeroed for the next call, whatever happened.
+        for r in scratch.summed.drain(..) {
+            scratch.sums[r] = 0;
+        }
+        result
+    }
+
+    fn sum_scaled(
+        &self,
+        scratch: &mut Scratch,
+        used: &[(usize, Q)],
+        l: i128,
+    ) -> Option<Vec<(usize, Q)>> {
         for (k, c) in used {
             let (Q::Small(c), Combination::Scaled(d, numerators)) =
                 (c, &self.basis[*k].combination)
@@ -356,32 +446,51 @@ impl CycleFinder {
             let factor = i128::from(*c.numer())
                 .checked_mul(l / (i128::from(*c.denom()) * i128::from(*d)))?;
             for (r, y) in numerators {
-                terms.push((*r, factor.checked_mul(i128::from(*y))?));
+                if *r >= scratch.sums.len() {
+                    scratch.sums.resize(*r + 1, 0);
+                }
+                let slot = &mut scratch.sums[*r];
+                if *slot == 0 {
+                    scratch.summed.push(*r);
+                }
+                // A sum that cancels to zero and grows again is listed
+                // twice; the dedup below takes care of it.
+                *slot = slot.checked_add(factor.checked_mul(i128::from(*y))?)?;
             }
         }
-        terms.sort_unstable_by_key(|(r, _)| *r);
-        let mut out: Vec<(usize, Q)> = Vec::with_capacity(terms.len());
-        let mut i = 0;
-        while i < terms.len() {
-            let r = terms[i].0;
-            let mut sum: i128 = 0;
-            while i < terms.len() && terms[i].0 == r {
-                sum = sum.checked_add(terms[i].1)?;
-                i += 1;
+        scratch.summed.sort_unstable();
+        scratch.summed.dedup();
+        let mut out: Vec<(usize, Q)> = Vec::with_capacity(scratch.summed.len());
+        for &r in &scratch.summed {
+            let sum = scratch.sums[r];
+            if sum == 0 {
+                continue;
             }
-            if sum != 0 {
-                let g = num_integer::gcd(sum, l);
-                let (n, d) = (i64::try_from(sum / g).ok()?, i64::try_from(l / g).ok()?);
-                out.push((r, Q::Small(Ratio::new_raw(n, d))));
-            }
+            // `l` fits in i64 (checked above); the gcd is taken on the
+            // narrowest integers that hold the values, and skipped for the
+            // common integer case.
+            let l64 = i64::try_from(l).ok()?;
+            let sum64 = i64::try_from(sum).ok();
+            let q = match sum64 {
+                Some(n) if l64 == 1 => Ratio::new_raw(n, 1),
+                Some(n) => {
+                    let g = num_integer::gcd(n, l64);
+                    Ratio::new_raw(n / g, l64 / g)
+                }
+                None => {
+                    let g = num_integer::gcd(sum, l);
+                    Ratio::new_raw(i64::try_from(sum / g).ok()?, i64::try_from(l / g).ok()?)
+                }
+            };
+            out.push((r, Q::Small(q)));
         }
         Some(out)
     }
 
     /// Σ c_k · combination_k over the used basis vectors, as a sorted list
     /// of original reactions with nonzero multipliers.
-    fn expand(&self, used: &[(usize, Q)]) -> Vec<(usize, Q)> {
-        if let Some(out) = self.expand_scaled(used) {
+    fn expand(&self, scratch: &mut Scratch, used: &[(usize, Q)]) -> Vec<(usize, Q)> {
+        if let Some(out) = self.expand_scaled(scratch, used) {
             return out;
         }
         let mut terms: Vec<(usize, Q)> = Vec::new();
@@ -401,13 +510,90 @@ impl CycleFinder {
     }
 }
 
+/// The canonical stoichiometry of a reaction: duplicates, reverses and
+/// multiples share it. It is the primitive integer vector along the
+/// reaction (coprime integers, the first one positive), on machine
+/// integers when they fit and on big integers when they do not; the form is
+/// a function of the vector alone, so equal vectors always meet.
+#[derive(Clone, Debug, PartialEq, Eq, Hash)]
+pub enum CanonicalKey {
+    Small(Vec<(u32, i64)>),
+    Big(Vec<(u32, BigInt)>),
+}
+
+impl CanonicalKey {
+    pub fn is_empty(&self) -> bool {
+        match self {
+            CanonicalKey::Small(v) => v.is_empty(),
+            CanonicalKey::Big(v) => v.is_empty(),
+        }
+    }
+}
+
 /// Normalises a reaction vector so that duplicates, reverses and multiples
 /// share a key: species sorted by id, repeated ids summed, zeros dropped,
-/// and everything divided by the first coefficient. Returns the key and the
-/// scale with `vector = scale · key`; a negative scale means the reaction is
-/// written reversed relative to the key. A vector with no nonzero
-/// coefficient has an empty key and scale zero.
-pub fn canonical_key(vector: &[(u32, Ratio<i64>)]) -> (Vec<(u32, BigRational)>, BigRational) {
+/// and the result scaled to its primitive integer form with the first
+/// coefficient positive. Returns the key and the scale with `vector = scale
+/// · key`; a negative scale means the reaction is written reversed relative
+/// to the key. A vector with no nonzero coefficient has an empty key and
+/// scale zero.
+pub fn canonical_key(vector: &[(u32, Ratio<i64>)]) -> (CanonicalKey, BigRational) {
+    canonical_small(vector).unwrap_or_else(|| canonical_big(vector))
+}
+
+/// [`canonical_key`] on `i64`; `None` when a value does not fit.
+fn canonical_small(vector: &[(u32, Ratio<i64>)]) -> Option<(CanonicalKey, BigRational)> {
+    let mut v: Vec<(u32, Ratio<i64>)> = Vec::with_capacity(vector.len());
+    for (s, c) in vector {
+        if *c.denom() == 0 {
+            // An unreduced zero denominator counts as zero, as in `big`.
+            continue;
+        }
+        if *c.numer() == i64::MIN || *c.denom() == i64::MIN {
+            // Reducing these could overflow; the big path takes them.
+            return None;
+        }
+        v.push((*s, Ratio::new(*c.numer(), *c.denom())));
+    }
+    v.sort_unstable_by_key(|(s, _)| *s);
+    let mut merged: Vec<(u32, Ratio<i64>)> = Vec::with_capacity(v.len());
+    for (s, c) in v {
+        match merged.last_mut() {
+            Some((ls, lc)) if *ls == s => *lc = lc.checked_add(&c)?,
+            _ => merged.push((s, c)),
+        }
+    }
+    merged.retain(|(_, c)| !c.is_zero());
+    let Some(first) = merged.first().map(|(_, c)| *c) else {
+        return Some((CanonicalKey::Small(Vec::new()), BigRational::zero()));
+    };
+    let mut lcm: i64 = 1;
+    for (_, c) in &merged {
+        let d = *c.denom();
+        lcm = lcm.checked_mul(d / num_integer::gcd(lcm, d))?;
+    }
+    let mut ints: Vec<(u32, i64)> = Vec::with_capacity(merged.len());
+    let mut g: i64 = 0;
+    for (s, c) in &merged {
+        let n = c.numer().checked_mul(&(lcm / c.denom()))?;
+        g = num_integer::gcd(g, n);
+        ints.push((*s, n));
+    }
+    let sign: i64 = if ints[0].1 < 0 { -1 } else { 1 };
+    let unit = g.checked_mul(sign)?;
+    for (_, n) in &mut ints {
+        *n /= unit;
+    }
+    // vector = first / key[0] · key.
+    let scale = BigRational::new(
+        BigInt::from(*first.numer()),
+        BigInt::from(*first.denom()) * BigInt::from(ints[0].1),
+    );
+    Some((CanonicalKey::Small(ints), scale))
+}
+
+/// [`canonical_key`] on big integers.
+fn canonical_big(vector: &[(u32, Ratio<i64>)]) -> (CanonicalKey, BigRational) {
     let mut v: Vec<(u32, BigRational)> = vector.iter().map(|(s, c)| (*s, big(c))).collect();
     v.sort_by_key(|(s, _)| *s);
     let mut merged: Vec<(u32, BigRational)> = Vec::with_capacity(v.len());
@@ -418,14 +604,36 @@ pub fn canonical_key(vector: &[(u32, Ratio<i64>)]) -> (Vec<(u32, BigRational)>, 
         }
     }
     merged.retain(|(_, c)| !c.is_zero());
-    let Some(scale) = merged.first().map(|(_, c)| c.clone()) else {
-        return (merged, BigRational::zero());
+    let Some(first) = merged.first().map(|(_, c)| c.clone()) else {
+        return (CanonicalKey::Small(Vec::new()), BigRational::zero());
     };
-    let inv = scale.recip();
-    for (_, c) in &mut merged {
-        *c *= &inv;
+    let mut lcm = BigInt::from(1);
+    for (_, c) in &merged {
+        lcm = num_integer::Integer::lcm(&lcm, c.denom());
     }
-    (merged, scale)
+    let mut ints: Vec<(u32, BigInt)> = merged
+        .iter()
+        .map(|(s, c)| (*s, c.numer() * (&lcm / c.denom())))
+        .collect();
+    let mut g = BigInt::zero();
+    for (_, n) in &ints {
+        g = num_integer::Integer::gcd(&g, n);
+    }
+    if ints[0].1 < BigInt::zero() {
+        g = -g;
+    }
+    for (_, n) in &mut ints {
+        *n = &*n / &g;
+    }
+    let scale = first / BigRational::from_integer(ints[0].1.clone());
+    match ints
+        .iter()
+        .map(|(s, n)| n.to_i64().map(|n| (*s, n)))
+        .collect::<Option<Vec<_>>>()
+    {
+        Some(small) => (CanonicalKey::Small(small), scale),
+        None => (CanonicalKey::Big(ints), scale),
+    }
 }
 
 #[cfg(test)]
@@ -642,8 +850,8 @@ mod tests {
         );
         assert_eq!(combo, Some(vec![(0, BigRational::one())]));
         let (key, scale) = canonical_key(&[(4, Ratio::new_raw(3, 6)), (2, Ratio::new_raw(-2, 2))]);
-        assert_eq!(key, vec![(2, BigRational::one()), (4, bq(-1, 2))]);
-        assert_eq!(scale, bq(-1, 1));
+        assert_eq!(key, CanonicalKey::Small(vec![(2, 2), (4, -1)]));
+        assert_eq!(scale, bq(-1, 2));
     }
 
     #[test]
@@ -656,14 +864,23 @@ mod tests {
         let (k3, s3) = canonical_key(&dbl);
         assert_eq!(k1, k2);
         assert_eq!(k1, k3);
-        assert_eq!(
-            k1,
-            vec![(1, BigRational::one()), (3, bq(1, 2)), (5, bq(-1, 1))]
-        );
-        assert_eq!((s1, s2, s3), (bq(-2, 1), bq(2, 1), bq(-4, 1)));
+        assert_eq!(k1, CanonicalKey::Small(vec![(1, 2), (3, 1), (5, -2)]));
+        assert_eq!((s1, s2, s3), (bq(-1, 1), bq(1, 1), bq(-2, 1)));
         assert_eq!(
             canonical_key(&[(1, q(1)), (1, q(-1))]),
-            (vec![], BigRational::zero())
+            (CanonicalKey::Small(vec![]), BigRational::zero())
         );
+        // Beyond 64 bits the key moves to big integers and still meets its
+        // multiples: (2^62, 3) and (2^63, 6) scale to one key.
+        let huge = [(1, q(1 << 62)), (2, Ratio::new(1, 1 << 62))];
+        let twice = [(1, q(i64::MAX)), (2, Ratio::new(2, i64::MAX))];
+        let (kh, _) = canonical_key(&huge);
+        assert!(matches!(kh, CanonicalKey::Big(_)));
+        let (kt, _) = canonical_key(&twice);
+        assert!(matches!(kt, CanonicalKey::Big(_)));
+        assert_ne!(kh, kt);
+        let (kh2, sh2) = canonical_key(&[(1, q(-(1 << 62))), (2, Ratio::new(-1, 1 << 62))]);
+        assert_eq!(kh, kh2);
+        assert_eq!(sh2, -canonical_key(&huge).1);
     }
 }

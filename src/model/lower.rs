@@ -107,18 +107,22 @@ struct Lowering<'w> {
     diags: Vec<Diagnostic>,
     aliases: HashMap<String, SpeciesId>,
     /// Species by the canonical key of their formula (non-alias species).
-    by_key: HashMap<String, SpeciesId>,
+    by_key: HashMap<FormulaKey, SpeciesId>,
     /// Resolution of each species text met so far (`None` when it failed).
     by_text: HashMap<String, Option<SpeciesId>>,
     labels: HashMap<String, Loc>,
 }
 
 /// A key under which two spellings of one formula in one phase meet.
-fn formula_key(f: &crate::chem::formula::Formula) -> String {
-    format!(
-        "{:?}|{}|{:?}|{:?}",
-        f.composition, f.charge, f.phase, f.kind
-    )
+type FormulaKey = (
+    Vec<(u8, num_rational::Ratio<i64>)>,
+    i64,
+    Option<crate::chem::formula::Phase>,
+    SpeciesKind,
+);
+
+fn formula_key(f: &crate::chem::formula::Formula) -> FormulaKey {
+    (f.composition.clone(), f.charge, f.phase, f.kind)
 }
 
 impl<'w> Lowering<'w> {

@@ -59,16 +59,22 @@ pub struct Lexeme {
 /// Split `text` into lexemes covering every byte of it.
 pub fn lex(text: &str) -> Vec<Lexeme> {
     let mut out = Vec::with_capacity(text.len() / 4 + 1);
-    let mut lexer = Token::lexer(text);
-    while let Some(result) = lexer.next() {
-        let range = lexer.span();
-        let token = result.unwrap_or(Token::Unknown);
-        out.push(Lexeme {
-            token,
-            span: Span::new(range.start, range.end),
-        });
-    }
+    out.extend(lexemes(text));
     out
+}
+
+/// The lexemes of `text` one at a time, for callers that go line by line
+/// and need not hold a whole file's tokens at once.
+pub fn lexemes(text: &str) -> impl Iterator<Item = Lexeme> + '_ {
+    let mut lexer = Token::lexer(text);
+    std::iter::from_fn(move || {
+        let result = lexer.next()?;
+        let range = lexer.span();
+        Some(Lexeme {
+            token: result.unwrap_or(Token::Unknown),
+            span: Span::new(range.start, range.end),
+        })
+    })
 }
 
 #[cfg(test)]

@@ -7,7 +7,7 @@
 //! error of a file is reported at once.
 
 use super::ast::*;
-use super::lexer::{Lexeme, Token, lex};
+use super::lexer::{Lexeme, Token, lex, lexemes};
 use super::value::parse_value;
 use crate::span::Span;
 use num_rational::Ratio;
@@ -17,23 +17,26 @@ pub const KEYWORDS: &[&str] = &["units", "use", "species", "reaction", "mixture"
 
 /// Parse a whole file. Never fails; errors are in [`SourceFile::errors`].
 pub fn parse(text: &str) -> SourceFile {
-    let lexemes = lex(text);
     let mut parser = Parser {
         text,
         file: SourceFile::default(),
         current: None,
         skipping: false,
+        scratch: Vec::new(),
     };
+    // One line's lexemes at a time: a file's tokens are never all held.
+    let mut line: Vec<Lexeme> = Vec::new();
     let mut line_no = 0usize;
-    let mut start = 0usize;
-    for (i, lexeme) in lexemes.iter().enumerate() {
+    for lexeme in lexemes(text) {
         if lexeme.token == Token::Newline {
-            parser.line(&lexemes[start..i], line_no);
+            parser.line(&line, line_no);
+            line.clear();
             line_no += 1;
-            start = i + 1;
+        } else {
+            line.push(lexeme);
         }
     }
-    parser.line(&lexemes[start..], line_no);
+    parser.line(&line, line_no);
     parser.finish_statement();
     parser.file
 }
@@ -44,6 +47,8 @@ struct Parser<'t> {
     current: Option<Statement>,
     /// True after a broken header: its continuation lines are skipped.
     skipping: bool,
+    /// The tokens of the line being read, without spaces and comments.
+    scratch: Vec<Lexeme>,
 }
 
 /// Parse one equation on its own (for `stoik balance`), with errors.
@@ -57,6 +62,7 @@ pub fn parse_equation(text: &str) -> (Option<Equation>, Vec<SyntaxError>) {
         file: SourceFile::default(),
         current: None,
         skipping: false,
+        scratch: Vec::new(),
     };
     let eq = parser.equation(&lexemes, Span::empty(0));
     (eq, parser.file.errors)
@@ -85,7 +91,9 @@ impl<'t> Parser<'t> {
         // A byte order mark (U+FEFF, zero width) is no indentation.
         let indented = matches!(lexemes.first(), Some(l) if l.token == Token::Space
             && !self.text[l.span.range()].chars().all(|c| c == '\u{feff}'));
-        let mut tokens: Vec<Lexeme> = Vec::with_capacity(lexemes.len());
+        // The buffer is reused from line to line.
+        let mut tokens = std::mem::take(&mut self.scratch);
+        tokens.clear();
         for l in lexemes {
             match l.token {
                 Token::Space => {}
@@ -100,16 +108,16 @@ impl<'t> Parser<'t> {
                 _ => tokens.push(*l),
             }
         }
-        if tokens.is_empty() {
-            return;
+        if !tokens.is_empty() {
+            if indented {
+                self.continuation(&tokens, line_no);
+            } else {
+                self.finish_statement();
+                self.skipping = false;
+                self.header(&tokens, line_no);
+            }
         }
-        if indented {
-            self.continuation(&tokens, line_no);
-        } else {
-            self.finish_statement();
-            self.skipping = false;
-            self.header(&tokens, line_no);
-        }
+        self.scratch = tokens;
     }
 
     fn continuation(&mut self, tokens: &[Lexeme], line_no: usize) {
