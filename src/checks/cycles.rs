@@ -80,18 +80,23 @@ pub(super) fn check(
             continue;
         }
         ln_k[i] = estimate.ln_k;
-        let Some(combination) = finder.add_f64(i, &v) else {
+        let Some(dependence) = finder.add_valued(i, &v, estimate.ln_k) else {
             continue;
         };
+        if dependence.is_trivial()
+            || !dependence.predicted.is_finite()
+            || (estimate.ln_k - dependence.predicted).abs() <= tolerance(dependence.predicted, rel)
+        {
+            continue;
+        }
+        // Only a failing cycle is expanded into its members; the predicted
+        // value is taken again from them, exactly as the message shows it.
+        let members = finder.combination(&dependence);
         // A single member is a duplicate, reverse or multiple: the pair
         // checks report those.
-        if combination.len() < 2 {
+        if members.len() < 2 || members.iter().any(|(_, m)| !m.is_finite()) {
             continue;
         }
-        if combination.iter().any(|(_, m)| !m.is_finite()) {
-            continue;
-        }
-        let members = combination;
         let predicted: f64 = members.iter().map(|(j, m)| m * ln_k[*j]).sum();
         if (estimate.ln_k - predicted).abs() <= tolerance(predicted, rel) {
             continue;

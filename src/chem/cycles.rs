@@ -128,54 +128,39 @@ struct BasisVector {
     pivot: u32,
     /// Species coefficients, sorted by id; the pivot's coefficient is 1.
     entries: Vec<(u32, Q)>,
-    /// This vector as a combination of original reactions, sorted by id.
-    combination: Combination,
+    /// How the vector was made: `scale · (reaction − Σ c_k b_k)` over the
+    /// older basis vectors `b_k` it was reduced by. Keeping these few
+    /// terms instead of the vector's full expansion in original reactions
+    /// keeps the basis small and adding cheap; the expansion is computed
+    /// only when a caller asks for it.
+    reaction: usize,
+    scale: Q,
+    reduced_by: Vec<(u32, Q)>,
+    /// The caller's value (ln K) carried through the same combination.
+    value: f64,
 }
 
-/// The multipliers of a basis vector in terms of original reactions,
-/// sorted by reaction id. Only one form is stored, which keeps the basis
-/// small: integer numerators over one common denominator when that fits in
-/// `i64` (the fast path of `expand`), exact rationals otherwise.
-enum Combination {
-    Scaled(i64, Vec<(usize, i64)>),
-    Exact(Vec<(usize, Q)>),
+/// A reaction found to depend on earlier ones: `vector = Σ c_k b_k` over
+/// basis vectors. [`CycleFinder::combination`] turns it into multipliers of
+/// original reactions.
+pub struct Dependence {
+    used: Vec<(u32, Q)>,
+    /// Σ m_i · value_i over the original reactions of the combination.
+    pub predicted: f64,
 }
 
-impl Combination {
-    fn new(terms: Vec<(usize, Q)>) -> Combination {
-        match scale_combination(&terms) {
-            Some((den, numerators)) => Combination::Scaled(den, numerators),
-            None => Combination::Exact(terms),
-        }
-    }
-
-    /// Appends `c · m` for every term `m` of the combination to `out`.
-    fn push_times(&self, c: &Q, out: &mut Vec<(usize, Q)>) {
-        match self {
-            Combination::Scaled(den, numerators) => out.extend(numerators.iter().map(|(r, y)| {
-                // The common denominator is positive, so `Ratio::new`
-                // leaves the value reduced with a positive denominator.
-                (*r, c.mul(&Q::Small(Ratio::new(*y, *den))))
-            })),
-            Combination::Exact(terms) => out.extend(terms.iter().map(|(r, y)| (*r, c.mul(y)))),
-        }
+impl Dependence {
+    /// True for the zero vector (the combination is empty).
+    pub fn is_trivial(&self) -> bool {
+        self.used.is_empty()
     }
 }
 
-/// A combination as integer numerators over a common denominator.
-fn scale_combination(combination: &[(usize, Q)]) -> Option<(i64, Vec<(usize, i64)>)> {
-    let mut den: i64 = 1;
-    for (_, m) in combination {
-        let Q::Small(m) = m else { return None };
-        let d = *m.denom();
-        den = den.checked_mul(d / num_integer::gcd(den, d))?;
+fn q_to_f64(q: &Q) -> f64 {
+    match q {
+        Q::Small(r) => *r.numer() as f64 / *r.denom() as f64,
+        Q::Big(b) => b.to_f64().unwrap_or(f64::NAN),
     }
-    let mut out = Vec::with_capacity(combination.len());
-    for (r, m) in combination {
-        let Q::Small(m) = m else { return None };
-        out.push((*r, m.numer().checked_mul(&(den / m.denom()))?));
-    }
-    Some((den, out))
 }
 
 /// Incremental exact test for linear dependence among reactions.
@@ -201,9 +186,6 @@ struct Scratch {
     work: Vec<Option<Q>>,
     touched: Vec<u32>,
     heap: BinaryHeap<Reverse<usize>>,
-    /// Integer sums by reaction id for `expand_scaled`, and which are set.
-    sums: Vec<i128>,
-    summed: Vec<usize>,
 }
 
 impl Scratch {
@@ -277,39 +259,38 @@ impl CycleFinder {
         reaction: usize,
         vector: &[(u32, Ratio<i64>)],
     ) -> Option<Vec<(usize, BigRational)>> {
-        self.add_exact(reaction, vector)
-            .map(|c| c.into_iter().map(|(r, m)| (r, m.to_big())).collect())
+        let dependence = self.add_valued(reaction, vector, 0.0)?;
+        Some(
+            self.expand(&dependence.used)
+                .into_iter()
+                .map(|(r, m)| (r, m.to_big()))
+                .collect(),
+        )
     }
 
-    /// [`CycleFinder::add`] with the multipliers as `f64`, which is what a
-    /// comparison of ln K needs; it avoids building big rationals.
-    pub fn add_f64(
+    /// [`CycleFinder::add`] carrying a value per reaction (ln K), which
+    /// combines like the vectors do: for a dependent reaction the value
+    /// the combination predicts comes back at once, without expanding the
+    /// combination; [`CycleFinder::combination`] expands it when needed.
+    pub fn add_valued(
         &mut self,
         reaction: usize,
         vector: &[(u32, Ratio<i64>)],
-    ) -> Option<Vec<(usize, f64)>> {
-        self.add_exact(reaction, vector).map(|c| {
-            c.into_iter()
-                .map(|(r, m)| {
-                    let x = match &m {
-                        Q::Small(q) => *q.numer() as f64 / *q.denom() as f64,
-                        Q::Big(b) => b.to_f64().unwrap_or(f64::NAN),
-                    };
-                    (r, x)
-                })
-                .collect()
-        })
-    }
-
-    fn add_exact(
-        &mut self,
-        reaction: usize,
-        vector: &[(u32, Ratio<i64>)],
-    ) -> Option<Vec<(usize, Q)>> {
+        value: f64,
+    ) -> Option<Dependence> {
         let mut scratch = std::mem::take(&mut self.scratch);
-        let result = self.reduce_and_insert(&mut scratch, reaction, vector);
+        let result = self.reduce_and_insert(&mut scratch, reaction, vector, value);
         self.scratch = scratch;
         result
+    }
+
+    /// The multipliers of original reactions, sorted by reaction id, of a
+    /// dependence, as `f64`.
+    pub fn combination(&self, dependence: &Dependence) -> Vec<(usize, f64)> {
+        self.expand(&dependence.used)
+            .iter()
+            .map(|(r, m)| (*r, q_to_f64(m)))
+            .collect()
     }
 
     fn reduce_and_insert(
@@ -317,7 +298,8 @@ impl CycleFinder {
         scratch: &mut Scratch,
         reaction: usize,
         vector: &[(u32, Ratio<i64>)],
-    ) -> Option<Vec<(usize, Q)>> {
+        value: f64,
+    ) -> Option<Dependence> {
         for (s, c) in vector {
             if c.is_zero() {
                 continue;
@@ -336,7 +318,8 @@ impl CycleFinder {
             }
         }
         // The basis vectors subtracted, with their multipliers.
-        let mut used: Vec<(usize, Q)> = Vec::new();
+        let mut used: Vec<(u32, Q)> = Vec::new();
+        let mut predicted = 0.0;
         let mut last = None;
         while let Some(Reverse(k)) = scratch.heap.pop() {
             if last == Some(k) {
@@ -358,12 +341,12 @@ impl CycleFinder {
                     scratch.heap.push(Reverse(j));
                 }
             }
-            used.push((k, c));
+            predicted += q_to_f64(&c) * b.value;
+            used.push((k as u32, c));
         }
-        let used = self.expand(scratch, &used);
         let work = scratch.drain();
         if work.is_empty() {
-            return Some(used);
+            return Some(Dependence { used, predicted });
         }
         // The rarest species becomes the pivot (Markowitz-style: few later
         // reactions will contain it); ties go to the largest id, which in a
@@ -377,137 +360,61 @@ impl CycleFinder {
         let mut entries: Vec<(u32, Q)> =
             work.into_iter().map(|(s, c)| (s, c.mul(&scale))).collect();
         entries.sort_by_key(|(s, _)| *s);
-        let minus_scale = scale.neg();
-        let mut combination: Vec<(usize, Q)> = used
-            .into_iter()
-            .map(|(r, m)| (r, m.mul(&minus_scale)))
-            .filter(|(_, m)| !m.is_zero())
-            .collect();
-        combination.push((reaction, scale));
-        combination.sort_by_key(|(r, _)| *r);
-        combination.dedup_by(|b, a| {
-            if a.0 == b.0 {
-                a.1 = a.1.add(&b.1);
-                true
-            } else {
-                false
-            }
-        });
-        combination.retain(|(_, m)| !m.is_zero());
         let p = pivot as usize;
         if p >= self.pivot_of.len() {
             self.pivot_of.resize(p + 1, NONE);
         }
         self.pivot_of[p] = u32::try_from(self.basis.len()).unwrap_or(NONE);
+        let value = q_to_f64(&scale) * (value - predicted);
+        used.shrink_to_fit();
         self.basis.push(BasisVector {
             pivot,
             entries,
-            combination: Combination::new(combination),
+            reaction,
+            scale,
+            reduced_by: used,
+            value,
         });
         None
     }
 
-    /// `expand` on integers: every term c_k · y_kr is brought over the
-    /// common denominator L = lcm_k(den(c_k) · D_k) and summed as an `i128`
-    /// in a dense table by reaction id. Returns `None` (and the caller
-    /// takes the rational path) when a value does not fit.
-    fn expand_scaled(&self, scratch: &mut Scratch, used: &[(usize, Q)]) -> Option<Vec<(usize, Q)>> {
-        let mut l: i128 = 1;
+    /// Σ c_k · b_k over basis vectors, in original reactions: sorted by
+    /// reaction id, nonzero multipliers only. Each basis vector refers only
+    /// to older ones, so taking the newest first visits each once.
+    fn expand(&self, used: &[(u32, Q)]) -> Vec<(usize, Q)> {
+        let mut pending: std::collections::BTreeMap<u32, Q> = std::collections::BTreeMap::new();
         for (k, c) in used {
-            let (Q::Small(c), Combination::Scaled(d, _)) = (c, &self.basis[*k].combination) else {
-                return None;
-            };
-            let den = i128::from(*c.denom()).checked_mul(i128::from(*d))?;
-            l = l.checked_mul(den / num_integer::gcd(l, den))?;
-            if l > i128::from(i64::MAX) {
-                return None;
-            }
+            add_into(&mut pending, *k, c);
         }
-        let result = self.sum_scaled(scratch, used, l);
-        // Leave the table zeroed for the next call, whatever happened.
-        for r in scratch.summed.drain(..) {
-            scratch.sums[r] = 0;
-        }
-        result
-    }
-
-    fn sum_scaled(
-        &self,
-        scratch: &mut Scratch,
-        used: &[(usize, Q)],
-        l: i128,
-    ) -> Option<Vec<(usize, Q)>> {
-        for (k, c) in used {
-            let (Q::Small(c), Combination::Scaled(d, numerators)) =
-                (c, &self.basis[*k].combination)
-            else {
-                return None;
-            };
-            let factor = i128::from(*c.numer())
-                .checked_mul(l / (i128::from(*c.denom()) * i128::from(*d)))?;
-            for (r, y) in numerators {
-                if *r >= scratch.sums.len() {
-                    scratch.sums.resize(*r + 1, 0);
-                }
-                let slot = &mut scratch.sums[*r];
-                if *slot == 0 {
-                    scratch.summed.push(*r);
-                }
-                // A sum that cancels to zero and grows again is listed
-                // twice; the dedup below takes care of it.
-                *slot = slot.checked_add(factor.checked_mul(i128::from(*y))?)?;
-            }
-        }
-        scratch.summed.sort_unstable();
-        scratch.summed.dedup();
-        let mut out: Vec<(usize, Q)> = Vec::with_capacity(scratch.summed.len());
-        for &r in &scratch.summed {
-            let sum = scratch.sums[r];
-            if sum == 0 {
+        let mut out: Vec<(usize, Q)> = Vec::new();
+        while let Some((k, a)) = pending.pop_last() {
+            if a.is_zero() {
                 continue;
             }
-            // `l` fits in i64 (checked above); the gcd is taken on the
-            // narrowest integers that hold the values, and skipped for the
-            // common integer case.
-            let l64 = i64::try_from(l).ok()?;
-            let sum64 = i64::try_from(sum).ok();
-            let q = match sum64 {
-                Some(n) if l64 == 1 => Ratio::new_raw(n, 1),
-                Some(n) => {
-                    let g = num_integer::gcd(n, l64);
-                    Ratio::new_raw(n / g, l64 / g)
-                }
-                None => {
-                    let g = num_integer::gcd(sum, l);
-                    Ratio::new_raw(i64::try_from(sum / g).ok()?, i64::try_from(l / g).ok()?)
-                }
-            };
-            out.push((r, Q::Small(q)));
+            let b = &self.basis[k as usize];
+            // b = scale · (r − Σ c_j b_j), so a · b = t · r − Σ t c_j b_j.
+            let t = a.mul(&b.scale);
+            for (j, c) in &b.reduced_by {
+                add_into(&mut pending, *j, &t.mul(c).neg());
+            }
+            out.push((b.reaction, t));
         }
-        Some(out)
-    }
-
-    /// Σ c_k · combination_k over the used basis vectors, as a sorted list
-    /// of original reactions with nonzero multipliers.
-    fn expand(&self, scratch: &mut Scratch, used: &[(usize, Q)]) -> Vec<(usize, Q)> {
-        if let Some(out) = self.expand_scaled(scratch, used) {
-            return out;
-        }
-        let mut terms: Vec<(usize, Q)> = Vec::new();
-        for (k, c) in used {
-            self.basis[*k].combination.push_times(c, &mut terms);
-        }
-        terms.sort_unstable_by_key(|(r, _)| *r);
-        let mut out: Vec<(usize, Q)> = Vec::with_capacity(terms.len());
-        for (r, m) in terms {
-            match out.last_mut() {
+        out.sort_by_key(|(r, _)| *r);
+        let mut merged: Vec<(usize, Q)> = Vec::with_capacity(out.len());
+        for (r, m) in out {
+            match merged.last_mut() {
                 Some((lr, lm)) if *lr == r => *lm = lm.add(&m),
-                _ => out.push((r, m)),
+                _ => merged.push((r, m)),
             }
         }
-        out.retain(|(_, m)| !m.is_zero());
-        out
+        merged.retain(|(_, m)| !m.is_zero());
+        merged
     }
+}
+
+fn add_into(map: &mut std::collections::BTreeMap<u32, Q>, k: u32, x: &Q) {
+    let slot = map.entry(k).or_insert(Q::Small(Ratio::zero()));
+    *slot = slot.add(x);
 }
 
 /// The canonical stoichiometry of a reaction: duplicates, reverses and
