@@ -430,6 +430,9 @@ impl ReactionK {
             }
         }
         let ds = stated_ds.or(species_s);
+        // One K model is kept per reaction; pushing left room to spare.
+        stated.shrink_to_fit();
+        rates.shrink_to_fit();
         ReactionK {
             dn_gas,
             dn_aq,

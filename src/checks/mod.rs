@@ -85,12 +85,28 @@ impl Phases {
         if self.on {
             let now = std::time::Instant::now();
             eprintln!(
-                "profile: {what}: {:.3} s",
-                (now - self.at.get()).as_secs_f64()
+                "profile: {what}: {:.3} s, resident {} MB (peak {} MB)",
+                (now - self.at.get()).as_secs_f64(),
+                memory_mb("VmRSS:"),
+                memory_mb("VmHWM:")
             );
             self.at.set(now);
         }
     }
+}
+
+/// A memory figure of this process from `/proc/self/status` in MB (0
+/// where the system has no such file).
+fn memory_mb(field: &str) -> u64 {
+    std::fs::read_to_string("/proc/self/status")
+        .ok()
+        .and_then(|s| {
+            s.lines()
+                .find(|l| l.starts_with(field))
+                .and_then(|l| l.split_whitespace().nth(1))
+                .and_then(|kb| kb.parse::<u64>().ok())
+        })
+        .map_or(0, |kb| kb / 1024)
 }
 
 /// Run every library-wide check.

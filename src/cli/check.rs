@@ -118,7 +118,7 @@ pub fn run(
         eprint!("\rchecking {total} files        \r");
     }
     clock.mark("reading and parsing");
-    let analysis = crate::analysis::analyze(ws, &config);
+    let analysis = crate::analysis::analyze_for_diagnostics(ws, &config);
     let ws = &analysis.workspace;
     let mut summary = Summary {
         files: ws.files.len(),
@@ -150,11 +150,10 @@ pub fn run(
         }
         Format::Json => {
             let report = CheckReport {
-                diagnostics: analysis
-                    .diagnostics
-                    .iter()
-                    .map(|d| render_json::diagnostic(d, ws))
-                    .collect(),
+                diagnostics: render_json::Diagnostics {
+                    diagnostics: &analysis.diagnostics,
+                    workspace: ws,
+                },
                 summary,
             };
             serde_json::to_writer_pretty(&mut out, &report)

@@ -6,9 +6,26 @@ use crate::workspace::Workspace;
 use serde::Serialize;
 
 #[derive(Serialize)]
-pub struct CheckReport {
-    pub diagnostics: Vec<JsonDiagnostic>,
+pub struct CheckReport<'a> {
+    pub diagnostics: Diagnostics<'a>,
     pub summary: Summary,
+}
+
+/// The diagnostics of a report, converted one at a time as they are
+/// written, so that a large report is never held twice in memory.
+pub struct Diagnostics<'a> {
+    pub diagnostics: &'a [Diagnostic],
+    pub workspace: &'a Workspace,
+}
+
+impl Serialize for Diagnostics<'_> {
+    fn serialize<S: serde::Serializer>(&self, serializer: S) -> Result<S::Ok, S::Error> {
+        serializer.collect_seq(
+            self.diagnostics
+                .iter()
+                .map(|d| diagnostic(d, self.workspace)),
+        )
+    }
 }
 
 #[derive(Serialize, Default, Clone, Copy)]

@@ -97,6 +97,8 @@ pub fn lower(ws: &Workspace, files: &[FileId], config: &Config) -> (Library, Vec
             }
         }
     }
+    l.lib.reactions.shrink_to_fit();
+    l.lib.species.shrink_to_fit();
     (l.lib, l.diags)
 }
 
@@ -586,6 +588,13 @@ impl<'w> Lowering<'w> {
             reaction.balanced = self.check_balance(file, eq, &reaction);
         }
         self.reaction_attributes(file, reader, s, &mut reaction);
+        // Room left by pushing is given back: libraries are large.
+        reaction.terms.shrink_to_fit();
+        reaction.k.shrink_to_fit();
+        reaction.dg.shrink_to_fit();
+        reaction.dh.shrink_to_fit();
+        reaction.ds.shrink_to_fit();
+        reaction.rates.shrink_to_fit();
         self.lib.reactions.push(reaction);
     }
 

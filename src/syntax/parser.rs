@@ -38,6 +38,8 @@ pub fn parse(text: &str) -> SourceFile {
     }
     parser.line(&line, line_no);
     parser.finish_statement();
+    parser.file.statements.shrink_to_fit();
+    parser.file.comments.shrink_to_fit();
     parser.file
 }
 
@@ -82,7 +84,17 @@ impl<'t> Parser<'t> {
     }
 
     fn finish_statement(&mut self) {
-        if let Some(statement) = self.current.take() {
+        if let Some(mut statement) = self.current.take() {
+            // Vectors grown by pushing keep room for more; a library holds
+            // a hundred thousand statements, so the room is given back.
+            statement.attributes.shrink_to_fit();
+            if let StatementKind::Reaction {
+                equation: Some(eq), ..
+            } = &mut statement.kind
+            {
+                eq.left.shrink_to_fit();
+                eq.right.shrink_to_fit();
+            }
             self.file.statements.push(statement);
         }
     }
