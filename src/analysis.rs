@@ -10,7 +10,7 @@ use crate::diagnostic::{Diagnostic, Severity};
 use crate::model::Library;
 use crate::span::{FileId, Span};
 use crate::workspace::Workspace;
-use std::collections::HashSet;
+use rustc_hash::FxHashSet as HashSet;
 
 /// A library and the file at its top.
 pub struct LibraryResult {
@@ -91,7 +91,7 @@ fn analyze_with(mut workspace: Workspace, config: &Config, keep_syntax: bool) ->
 
 /// Deduplicate, apply suppressions and severities, sort.
 fn finish(ws: &Workspace, raw: Vec<Diagnostic>, config: &Config) -> Vec<Diagnostic> {
-    let mut seen = HashSet::new();
+    let mut seen = HashSet::default();
     let mut list: Vec<Diagnostic> = raw
         .into_iter()
         .filter(|d| seen.insert((d.file, d.span, d.rule, d.message.clone())))

@@ -56,6 +56,38 @@ pub struct Workspace {
     by_path: HashMap<PathBuf, FileId>,
     /// Problems met while reading: `use-error`, text that is not UTF-8.
     pub diagnostics: Vec<Diagnostic>,
+    /// Files read and parsed ahead by [`Workspace::preparse`], taken by
+    /// the first `load` or `use` that reaches them.
+    preparsed: HashMap<PathBuf, Parsed>,
+}
+
+/// A file's text, decoded and parsed, before it has an id.
+struct Parsed {
+    text: String,
+    /// The byte where the file stopped being UTF-8, if it did.
+    bad_utf8: Option<usize>,
+    syntax: SourceFile,
+    index: LineIndex,
+}
+
+impl Parsed {
+    fn of(bytes: Vec<u8>) -> Parsed {
+        let (text, bad_utf8) = match String::from_utf8(bytes) {
+            Ok(text) => (text, None),
+            Err(e) => {
+                let at = e.utf8_error().valid_up_to();
+                (String::from_utf8_lossy(e.as_bytes()).into_owned(), Some(at))
+            }
+        };
+        let syntax = crate::syntax::parse(&text);
+        let index = LineIndex::new(&text);
+        Parsed {
+            text,
+            bad_utf8,
+            syntax,
+            index,
+        }
+    }
 }
 
 /// Why a root file could not be read at all (exit code 2 in the CLI).
@@ -72,6 +104,68 @@ impl Workspace {
             files: Vec::new(),
             by_path: HashMap::new(),
             diagnostics: Vec::new(),
+            preparsed: HashMap::new(),
+        }
+    }
+
+    /// Read `paths` and parse them on every core, ahead of the `load`s
+    /// that will ask for them: parsing is independent per file, and a
+    /// library split into parts is parsed in a fraction of the time. A
+    /// file that cannot be read is left for `load` to report.
+    pub fn preparse(&mut self, paths: &[PathBuf], source: &dyn FileSource) {
+        let mut jobs: Vec<(PathBuf, Vec<u8>)> = Vec::new();
+        for p in paths {
+            let path = absolute(p);
+            if self.by_path.contains_key(&path) || self.preparsed.contains_key(&path) {
+                continue;
+            }
+            if let Ok(bytes) = source.read(&path) {
+                jobs.push((path, bytes));
+            }
+        }
+        let workers = std::thread::available_parallelism()
+            .map_or(1, std::num::NonZeroUsize::get)
+            .min(jobs.len());
+        if workers < 2 {
+            for (path, bytes) in jobs {
+                self.preparsed.insert(path, Parsed::of(bytes));
+            }
+            return;
+        }
+        // Largest first, dealt round-robin, so the workers finish together.
+        jobs.sort_by_key(|(_, b)| std::cmp::Reverse(b.len()));
+        let mut shares: Vec<Vec<(PathBuf, Vec<u8>)>> = (0..workers).map(|_| Vec::new()).collect();
+        for (i, job) in jobs.into_iter().enumerate() {
+            shares[i % workers].push(job);
+        }
+        let parsed: Vec<(PathBuf, Parsed)> = std::thread::scope(|scope| {
+            let handles: Vec<_> = shares
+                .into_iter()
+                .map(|share| {
+                    scope.spawn(move || {
+                        share
+                            .into_iter()
+                            .map(|(path, bytes)| (path, Parsed::of(bytes)))
+                            .collect::<Vec<_>>()
+                    })
+                })
+                .collect();
+            handles
+                .into_iter()
+                // A worker that panicked leaves its files to `load`, which
+                // parses them again on this thread.
+                .filter_map(|h| h.join().ok())
+                .flatten()
+                .collect()
+        });
+        self.preparsed.extend(parsed);
+    }
+
+    /// The file at `path`: parsed ahead, or read now.
+    fn read_parsed(&mut self, path: &Path, source: &dyn FileSource) -> std::io::Result<Parsed> {
+        match self.preparsed.remove(path) {
+            Some(p) => Ok(p),
+            None => source.read(path).map(Parsed::of),
         }
     }
 
@@ -89,27 +183,24 @@ impl Workspace {
         if let Some(id) = self.by_path.get(&path) {
             return Ok(*id);
         }
-        let bytes = source.read(&path).map_err(|error| ReadError {
+        let parsed = self.read_parsed(&path, source).map_err(|error| ReadError {
             path: path.clone(),
             error,
         })?;
-        let id = self.add_text(&path, bytes);
+        let id = self.add_parsed(&path, parsed);
         self.follow_uses(id, source);
         Ok(id)
     }
 
-    /// Add a file's bytes without following its uses.
-    fn add_text(&mut self, path: &Path, bytes: Vec<u8>) -> FileId {
+    /// Add a parsed file without following its uses.
+    fn add_parsed(&mut self, path: &Path, parsed: Parsed) -> FileId {
         let id = FileId(self.files.len() as u32);
-        let (text, bad_utf8) = match String::from_utf8(bytes) {
-            Ok(text) => (text, None),
-            Err(e) => {
-                let at = e.utf8_error().valid_up_to();
-                (String::from_utf8_lossy(e.as_bytes()).into_owned(), Some(at))
-            }
-        };
-        let syntax = crate::syntax::parse(&text);
-        let index = LineIndex::new(&text);
+        let Parsed {
+            text,
+            bad_utf8,
+            syntax,
+            index,
+        } = parsed;
         if let Some(at) = bad_utf8 {
             let end = text[at..]
                 .chars()
@@ -191,9 +282,9 @@ impl Workspace {
                 }
                 continue;
             }
-            match source.read(&target) {
-                Ok(bytes) => {
-                    let id = self.add_text(&target, bytes);
+            match self.read_parsed(&target, source) {
+                Ok(parsed) => {
+                    let id = self.add_parsed(&target, parsed);
                     self.files[file.0 as usize].uses.push((*span, id));
                     on_path.push(id);
                     stack.push((id, 0));

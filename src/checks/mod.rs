@@ -36,6 +36,10 @@ pub fn number(x: f64) -> String {
         return "0".into();
     }
     let a = x.abs();
+    if x.fract() == 0.0 && a < 1e5 {
+        // Integers (multipliers, most temperatures) need no rounding.
+        return format!("{}", x as i64);
+    }
     if (1e-3..1e5).contains(&a) {
         let digits = (3 - a.log10().floor() as i32).max(0) as usize;
         let s = format!("{x:.digits$}");
@@ -113,16 +117,15 @@ fn memory_mb(field: &str) -> u64 {
 pub fn run(ws: &Workspace, lib: &Library, config: &Config) -> Vec<Diagnostic> {
     let mut out = Vec::new();
     let prep = Phases::start();
-    let checked: Vec<Checked> = lib
+    let ready: Vec<&crate::model::Reaction> = lib
         .reactions
         .iter()
-        .enumerate()
-        .filter(|(_, r)| r.complete && r.balanced)
-        .map(|(_, reaction)| Checked {
-            reaction,
-            k: ReactionK::of(lib, reaction),
-        })
+        .filter(|r| r.complete && r.balanced)
         .collect();
+    let checked = on_every_core(&ready, |reaction| Checked {
+        reaction,
+        k: ReactionK::of(lib, reaction),
+    });
     prep.mark("K models");
     let clock = Phases::start();
     for c in &checked {
@@ -136,9 +139,47 @@ pub fn run(ws: &Workspace, lib: &Library, config: &Config) -> Vec<Diagnostic> {
     for m in &lib.mixtures {
         out.extend(crate::solve::mixture_diagnostics(lib, m));
     }
-    pairs::check(ws, lib, &checked, config.tolerance, &mut out);
-    clock.mark("pairs");
-    cycles::check(ws, lib, &checked, config.tolerance, &mut out);
+    // The pair and cycle checks are independent: they run side by side.
+    let mut from_cycles = Vec::new();
+    std::thread::scope(|scope| {
+        let cycles = scope.spawn(|| {
+            let mut found = Vec::new();
+            cycles::check(ws, lib, &checked, config.tolerance, &mut found);
+            found
+        });
+        pairs::check(ws, lib, &checked, config.tolerance, &mut out);
+        clock.mark("pairs");
+        match cycles.join() {
+            Ok(found) => from_cycles = found,
+            // Re-raise on this thread, where the callers catch panics.
+            Err(panic) => std::panic::resume_unwind(panic),
+        }
+    });
+    out.extend(from_cycles);
     clock.mark("cycles");
     out
+}
+
+/// `f` over `items`, in order, split across the cores.
+fn on_every_core<'a, T: Sync, R: Send>(items: &'a [T], f: impl Fn(&'a T) -> R + Sync) -> Vec<R> {
+    let workers = std::thread::available_parallelism().map_or(1, std::num::NonZeroUsize::get);
+    if workers < 2 || items.len() < 4096 {
+        return items.iter().map(f).collect();
+    }
+    let chunk = items.len().div_ceil(workers);
+    std::thread::scope(|scope| {
+        let f = &f;
+        let handles: Vec<_> = items
+            .chunks(chunk)
+            .map(|part| scope.spawn(move || part.iter().map(f).collect::<Vec<R>>()))
+            .collect();
+        let mut out = Vec::with_capacity(items.len());
+        for h in handles {
+            match h.join() {
+                Ok(part) => out.extend(part),
+                Err(panic) => std::panic::resume_unwind(panic),
+            }
+        }
+        out
+    })
 }

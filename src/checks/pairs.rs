@@ -9,7 +9,7 @@ use crate::model::{KForm, Library};
 use crate::workspace::Workspace;
 use num_rational::BigRational;
 use num_traits::ToPrimitive;
-use std::collections::HashMap;
+use rustc_hash::FxHashMap as HashMap;
 
 fn as_u32_vector(c: &Checked) -> Vec<(u32, num_rational::Ratio<i64>)> {
     c.reaction
@@ -46,7 +46,7 @@ pub(super) fn check(
     rel: f64,
     out: &mut Vec<Diagnostic>,
 ) {
-    let mut groups: HashMap<CanonicalKey, Vec<(usize, BigRational)>> = HashMap::new();
+    let mut groups: HashMap<CanonicalKey, Vec<(usize, BigRational)>> = HashMap::default();
     for (i, c) in checked.iter().enumerate() {
         let v = as_u32_vector(c);
         if v.is_empty() {

@@ -91,6 +91,7 @@ pub fn run(
     let progress = std::io::stderr().is_terminal() && files.len() > 20;
     let clock = crate::checks::Phases::start();
     let mut ws = Workspace::new(&root);
+    ws.preparse(&files, &overlay);
     let total = files.len();
     for (i, f) in files.iter().enumerate() {
         if progress && i % 10 == 0 {

@@ -14,7 +14,7 @@ use crate::diagnostic::{Applicability, Diagnostic, Fix, TextEdit};
 use crate::syntax::ast::{self, ArrowKind, Statement, StatementKind, ValueKind};
 use crate::syntax::parser::truncate;
 use crate::workspace::Workspace;
-use std::collections::HashMap;
+use rustc_hash::FxHashMap as HashMap;
 
 /// The attributes a species takes.
 pub const SPECIES_ATTRIBUTES: &[&str] = &["dHf", "dGf", "S", "Cp", "source"];
@@ -69,10 +69,10 @@ pub fn lower(ws: &Workspace, files: &[FileId], config: &Config) -> (Library, Vec
             ..Library::default()
         },
         diags: Vec::new(),
-        aliases: HashMap::new(),
-        by_key: HashMap::new(),
-        by_text: HashMap::new(),
-        labels: HashMap::new(),
+        aliases: HashMap::default(),
+        by_key: HashMap::default(),
+        by_text: HashMap::default(),
+        labels: HashMap::default(),
     };
     for &file in files {
         let reader = l.reader(file);
