@@ -7,6 +7,11 @@
 use criterion::{Criterion, criterion_group, criterion_main};
 use stoik::equilibrium::{ActivityModel, Phase, Problem, Reaction, Species, Vessel, solve};
 
+/// The allocator of the `stoik` binary, so that the figures are the ones
+/// the command and the server give.
+#[global_allocator]
+static ALLOCATOR: mimalloc::MiMalloc = mimalloc::MiMalloc;
+
 /// A small deterministic generator (64-bit LCG, Knuth's MMIX constants).
 struct Lcg(u64);
 

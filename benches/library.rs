@@ -8,6 +8,11 @@ use stoik::config::Config;
 use stoik::synthetic::{Recipe, generate};
 use stoik::workspace::{Overlay, Workspace};
 
+/// The allocator of the `stoik` binary, so that the figures are the ones
+/// the command and the server give.
+#[global_allocator]
+static ALLOCATOR: mimalloc::MiMalloc = mimalloc::MiMalloc;
+
 /// A generated library in memory, as an overlay rooted at a fixed path.
 fn library(reactions: usize) -> (PathBuf, Overlay, String) {
     let g = generate(&Recipe {

@@ -16,6 +16,11 @@ use stoik::lsp::snapshot::build_with;
 use stoik::syntax::line_index::{Encoding, Position};
 use tower_lsp_server::ls_types as lsp;
 
+/// The allocator of the `stoik` binary, so that the figures are the ones
+/// the command and the server give.
+#[global_allocator]
+static ALLOCATOR: mimalloc::MiMalloc = mimalloc::MiMalloc;
+
 /// An invented library of distinct reactions: dehydrogenations with K and
 /// dH, chlorinations with Arrhenius rate constants, and a mixture.
 fn library(reactions: usize) -> String {
