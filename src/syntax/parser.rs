@@ -16,7 +16,97 @@ use num_rational::Ratio;
 pub const KEYWORDS: &[&str] = &["units", "use", "species", "reaction", "mixture"];
 
 /// Parse a whole file. Never fails; errors are in [`SourceFile::errors`].
+///
+/// A large file is cut before statement headers into one piece per core and
+/// the pieces are parsed side by side: a header line resets all the state
+/// the parser carries from line to line, so the pieces give exactly the
+/// statements, comments and errors of one pass, in the same order.
 pub fn parse(text: &str) -> SourceFile {
+    let workers = std::thread::available_parallelism().map_or(1, std::num::NonZeroUsize::get);
+    parse_in_pieces(text, PIECE_MIN_BYTES, workers)
+}
+
+/// Files smaller than this are parsed in one piece.
+const PIECE_MIN_BYTES: usize = 256 * 1024;
+
+fn parse_in_pieces(text: &str, piece_min: usize, workers: usize) -> SourceFile {
+    let wanted = (text.len() / piece_min.max(1)).clamp(1, workers);
+    let cuts = header_cuts(text, wanted);
+    if cuts.len() < 2 {
+        return parse_range(text, 0, text.len(), 0);
+    }
+    // Line numbers where each piece starts, counted as the lexer does.
+    let mut first_lines = Vec::with_capacity(cuts.len());
+    let mut line = 0usize;
+    let mut at = 0usize;
+    for &cut in &cuts {
+        line += count_line_breaks(&text[at..cut]);
+        first_lines.push(line);
+        at = cut;
+    }
+    let ends: Vec<usize> = cuts.iter().skip(1).copied().chain([text.len()]).collect();
+    let pieces: Vec<SourceFile> = std::thread::scope(|scope| {
+        let handles: Vec<_> = cuts
+            .iter()
+            .zip(&ends)
+            .zip(&first_lines)
+            .map(|((&start, &end), &line)| scope.spawn(move || parse_range(text, start, end, line)))
+            .collect();
+        handles
+            .into_iter()
+            .map(|h| {
+                h.join()
+                    .unwrap_or_else(|panic| std::panic::resume_unwind(panic))
+            })
+            .collect()
+    });
+    let mut file = SourceFile::default();
+    for piece in pieces {
+        file.statements.extend(piece.statements);
+        file.comments.extend(piece.comments);
+        file.errors.extend(piece.errors);
+    }
+    file
+}
+
+/// Up to `pieces` start offsets (the first is 0), each other one the start
+/// of a line that begins with an ASCII letter: a statement header.
+fn header_cuts(text: &str, pieces: usize) -> Vec<usize> {
+    let bytes = text.as_bytes();
+    let mut cuts = vec![0];
+    for k in 1..pieces {
+        let from = (text.len() * k / pieces).max(cuts[cuts.len() - 1] + 1);
+        let found = bytes
+            .get(from..)
+            .unwrap_or_default()
+            .windows(2)
+            .position(|w| w[0] == b'\n' && w[1].is_ascii_alphabetic())
+            .map(|i| from + i + 1);
+        match found {
+            Some(cut) if cut < text.len() => cuts.push(cut),
+            _ => break,
+        }
+    }
+    cuts
+}
+
+/// Line breaks as the lexer counts them: `\r\n`, `\n` and a lone `\r`.
+fn count_line_breaks(text: &str) -> usize {
+    let bytes = text.as_bytes();
+    let mut n = 0;
+    for (i, b) in bytes.iter().enumerate() {
+        match b {
+            b'\n' => n += 1,
+            b'\r' if bytes.get(i + 1) != Some(&b'\n') => n += 1,
+            _ => {}
+        }
+    }
+    n
+}
+
+/// Parse `text[start..end]`, a run of whole lines starting at line
+/// `first_line`, with spans into the whole text.
+fn parse_range(text: &str, start: usize, end: usize, first_line: usize) -> SourceFile {
     let mut parser = Parser {
         text,
         file: SourceFile::default(),
@@ -26,8 +116,9 @@ pub fn parse(text: &str) -> SourceFile {
     };
     // One line's lexemes at a time: a file's tokens are never all held.
     let mut line: Vec<Lexeme> = Vec::new();
-    let mut line_no = 0usize;
-    for lexeme in lexemes(text) {
+    let mut line_no = first_line;
+    for mut lexeme in lexemes(&text[start..end]) {
+        lexeme.span = lexeme.span.offset(start);
         if lexeme.token == Token::Newline {
             parser.line(&line, line_no);
             line.clear();
@@ -831,5 +922,58 @@ pub fn truncate(s: &str, max: usize) -> String {
     match s.char_indices().nth(max) {
         Some((i, _)) => format!("{}…", &s[..i]),
         None => s.to_string(),
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use proptest::prelude::*;
+
+    fn line() -> impl Strategy<Value = String> {
+        prop_oneof![
+            Just("reaction r1: H2(g) + Cl2(g) <=> 2 HCl(g)".to_string()),
+            Just("reaction: A <=> B ; K = 3".to_string()),
+            Just("  K = 1.0e-3 at 700 K".to_string()),
+            Just("  dH = 12 kJ/mol # trailing".to_string()),
+            Just("species water = H2O(l)".to_string()),
+            Just("# a comment on its own line".to_string()),
+            Just("   # an indented comment".to_string()),
+            Just("  ".to_string()),
+            Just(String::new()),
+            Just("\u{feff}units energy = kJ/mol".to_string()),
+            Just("reaction broken <=>".to_string()),
+            Just("  orphan = 1".to_string()),
+            Just("mixture feed".to_string()),
+            Just("  H2(g) = 1 mol/L".to_string()),
+            Just("  \"open string".to_string()),
+            "[a-z =<>#:;,\"0-9()+-]{0,30}",
+        ]
+    }
+
+    fn file() -> impl Strategy<Value = String> {
+        proptest::collection::vec(
+            (line(), prop_oneof![Just("\n"), Just("\r\n"), Just("\r")]),
+            0..60,
+        )
+        .prop_map(|lines| lines.into_iter().map(|(l, e)| l + e).collect())
+    }
+
+    proptest! {
+        #[test]
+        fn pieces_parse_like_one_pass(text in file(), workers in 2usize..6) {
+            let whole = parse_range(&text, 0, text.len(), 0);
+            let pieces = parse_in_pieces(&text, 1, workers);
+            prop_assert_eq!(format!("{:?}", pieces), format!("{:?}", whole));
+        }
+    }
+
+    #[test]
+    fn cuts_fall_before_headers() {
+        let text = "reaction: A <=> B\n  K = 1\n# note\nreaction: B <=> C\n  K = 2\n";
+        let cuts = header_cuts(text, 2);
+        assert_eq!(cuts.len(), 2);
+        assert!(text[cuts[1]..].starts_with("reaction: B"));
+        assert_eq!(count_line_breaks("a\r\nb\rc\n"), 3);
     }
 }
