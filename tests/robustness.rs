@@ -70,8 +70,29 @@ fn fragment() -> impl Strategy<Value = String> {
     ]
 }
 
+/// Text made of the characters where the lexer's patterns meet: arrows and
+/// their pieces, quotes and escapes, comments, every space and line end.
+fn lexer_soup() -> impl Strategy<Value = String> {
+    let piece = prop_oneof![
+        8 => prop::sample::select(vec![
+            "<", ">", "=", "-", "<=>", "<->", "->", "\"", "\\", "#", "\n", "\r", "\r\n", " ",
+            "\t", "\u{a0}", "\u{feff}", "⇌", "⇄", "→", "↔", "a", "H2", "é", "𝛥", ";", ":", ",",
+        ])
+        .prop_map(str::to_string),
+        1 => "\\PC{0,8}",
+        1 => any::<String>(),
+    ];
+    proptest::collection::vec(piece, 0..60).prop_map(|v| v.concat())
+}
+
 proptest! {
     #![proptest_config(ProptestConfig::with_cases(300))]
+
+    #[test]
+    fn the_lexer_reads_what_its_patterns_say(text in lexer_soup()) {
+        let lexemes = stoik::syntax::lexer::lex(&text);
+        prop_assert_eq!(lexemes, stoik::syntax::lexer::lex_with_logos(&text));
+    }
 
     #[test]
     fn arbitrary_text_never_panics(text in "\\PC{0,200}") {

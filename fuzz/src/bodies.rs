@@ -27,10 +27,20 @@ fn assert_span(text: &str, start: usize, end: usize, what: &str) {
 }
 
 /// The lexer covers every byte with non-empty lexemes in order, each of the
-/// shape its token promises, and the notation is line-shaped: lexing each
-/// line on its own gives the same tokens.
+/// shape its token promises, it agrees with the lexer logos generates from
+/// the same patterns, and the notation is line-shaped: lexing each line on
+/// its own gives the same tokens.
 pub fn lexer(text: &str) {
     let lexemes = lex(text);
+    // The generated lexer recurses per multi-byte character; keep it to
+    // texts short enough for an unoptimised test thread's stack.
+    if text.len() <= 4096 {
+        assert_eq!(
+            lexemes,
+            stoik::syntax::lexer::lex_with_logos(text),
+            "the loop and the patterns disagree"
+        );
+    }
     let mut at = 0;
     for l in &lexemes {
         assert_eq!(l.span.start, at, "a gap or overlap before {l:?}");
