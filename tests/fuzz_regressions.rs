@@ -23,10 +23,7 @@ fn files_under(dir: &Path, out: &mut Vec<PathBuf>) {
         let p = e.path();
         if p.is_dir() {
             files_under(&p, out);
-        } else if p
-            .extension()
-            .is_some_and(|x| x == "stoik" || x == "txt")
-        {
+        } else if p.extension().is_some_and(|x| x == "stoik" || x == "txt") {
             out.push(p);
         }
     }
@@ -67,7 +64,12 @@ fn every_kept_crash_input_passes_every_target() {
 #[test]
 fn the_seed_corpus_passes_every_target_in_every_line_end_style() {
     let mut files = Vec::new();
-    for dir in ["examples", "tests/fixtures", "grammar/examples", "tests/format"] {
+    for dir in [
+        "examples",
+        "tests/fixtures",
+        "grammar/examples",
+        "tests/format",
+    ] {
         files_under(&root().join(dir), &mut files);
     }
     files.sort();
