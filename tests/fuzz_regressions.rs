@@ -7,7 +7,6 @@
 //! `cargo test`, without cargo-fuzz.
 
 #[path = "format/support.rs"]
-#[allow(dead_code)]
 mod support;
 
 #[path = "../fuzz/src/bodies.rs"]
@@ -36,7 +35,8 @@ fn root() -> PathBuf {
 /// Every body on one input, naming the file and the target on failure.
 fn run_all(name: &str, bytes: &[u8]) {
     let text = String::from_utf8_lossy(bytes);
-    let targets: [(&str, fn(&str)); 5] = [
+    type Body = fn(&str);
+    let targets: [(&str, Body); 5] = [
         ("lexer", bodies::lexer),
         ("parser", bodies::parser),
         ("checker", bodies::checker),
