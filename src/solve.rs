@@ -111,7 +111,19 @@ pub fn mixture_diagnostics(lib: &Library, m: &Mixture) -> Vec<Diagnostic> {
             ),
         );
     }
-    for e in &m.entries {
+    for (i, e) in m.entries.iter().enumerate() {
+        if let Some(first) = m.entries[..i].iter().find(|f| f.species == e.species) {
+            out.push(
+                Diagnostic::new(
+                    "mixture",
+                    e.loc.file,
+                    e.loc.span,
+                    format!("`{}` is given twice in mixture `{}`", e.name, m.name),
+                )
+                .with_related(first.loc.file, first.loc.span, "first given here")
+                .with_help("keep one amount for each species"),
+            );
+        }
         let sp = lib.species(e.species);
         let std = standard_of(lib, e.species);
         if e.kind == AmountKind::Pressure && std != Standard::Gas {
@@ -181,9 +193,11 @@ pub fn solve_mixture(ws: &Workspace, lib: &Library, m: &Mixture) -> Option<Mixtu
             (AmountKind::Pressure, None) => (0.0, "bar"),
             (AmountKind::Amount, _) => (e.value, "mol"),
         };
-        if index_of.insert(e.species, species.len()).is_some() {
+        // The first amount of a species counts (a second one is diagnosed).
+        if index_of.contains_key(&e.species) {
             continue;
         }
+        index_of.insert(e.species, species.len());
         units.push((e.kind, unit));
         species.push(equilibrium::Species {
             name: e.name.clone(),

@@ -29,9 +29,32 @@ impl FileSource for Overlay {
     fn read(&self, path: &Path) -> std::io::Result<Vec<u8>> {
         match self.texts.get(path) {
             Some(text) => Ok(text.clone().into_bytes()),
-            None => std::fs::read(path),
+            None => read_settled(path),
         }
     }
+}
+
+/// Read a regular file whole, and again when it changed while it was read
+/// (its length or modification time moved, or the bytes read are not its
+/// length), so that the text is one version of the file and never the start
+/// of one spliced to the end of another. A file that keeps changing is an
+/// error. Pipes and other special files are read once, as they are.
+fn read_settled(path: &Path) -> std::io::Result<Vec<u8>> {
+    let stamp = |m: &std::fs::Metadata| (m.len(), m.modified().ok());
+    for _ in 0..5 {
+        let before = std::fs::metadata(path)?;
+        if !before.is_file() {
+            return std::fs::read(path);
+        }
+        let bytes = std::fs::read(path)?;
+        let after = std::fs::metadata(path)?;
+        if stamp(&before) == stamp(&after) && bytes.len() as u64 == after.len() {
+            return Ok(bytes);
+        }
+    }
+    Err(std::io::Error::other(
+        "the file kept changing while it was read",
+    ))
 }
 
 /// One file of the workspace with everything derived from its text.

@@ -52,9 +52,17 @@ impl SourceLine {
     }
 
     /// True when the line starts with whitespace.
-    fn indented(&self, all: &[Lexeme]) -> bool {
-        matches!(self.lexemes(all).first(), Some(l) if l.token == Token::Space)
+    fn indented(&self, text: &str, all: &[Lexeme]) -> bool {
+        indents(text, self.lexemes(all))
     }
+}
+
+/// True when a line of these lexemes is indented: it starts with spaces
+/// other than byte order marks (zero width, and no indentation to the
+/// parser either).
+fn indents(text: &str, lexemes: &[Lexeme]) -> bool {
+    matches!(lexemes.first(), Some(l) if l.token == Token::Space
+        && !text[l.span.range()].chars().all(|c| c == '\u{feff}'))
 }
 
 /// Cut the lexemes into lines and classify each one.
@@ -64,22 +72,36 @@ pub fn split_lines(text: &str, lexemes: &[Lexeme]) -> Vec<SourceLine> {
     let mut start = 0;
     for (i, l) in lexemes.iter().enumerate() {
         if l.token == Token::Newline {
-            lines.push(classify(lexemes, lo, i, start, l.span.start));
+            lines.push(classify(text, lexemes, lo, i, start, l.span.start));
             lo = i + 1;
             start = l.span.end;
         }
     }
-    lines.push(classify(lexemes, lo, lexemes.len(), start, text.len()));
+    lines.push(classify(
+        text,
+        lexemes,
+        lo,
+        lexemes.len(),
+        start,
+        text.len(),
+    ));
     lines
 }
 
-fn classify(all: &[Lexeme], lo: usize, hi: usize, start: usize, end: usize) -> SourceLine {
+fn classify(
+    text: &str,
+    all: &[Lexeme],
+    lo: usize,
+    hi: usize,
+    start: usize,
+    end: usize,
+) -> SourceLine {
     let lexemes = &all[lo..hi];
     let code = lexemes
         .iter()
         .any(|l| !matches!(l.token, Token::Space | Token::Comment));
     let comment = lexemes.iter().any(|l| l.token == Token::Comment);
-    let indented = matches!(lexemes.first(), Some(l) if l.token == Token::Space);
+    let indented = indents(text, lexemes);
     let kind = match (code, comment, indented) {
         (true, _, false) => LineKind::Header,
         (true, _, true) => LineKind::Continuation,
@@ -132,7 +154,7 @@ fn content_end(text: &str, line: &SourceLine, all: &[Lexeme]) -> usize {
 /// A comment on a line of its own, at column 0 or indented by two.
 pub fn free_comment_line(text: &str, line: &SourceLine, all: &[Lexeme]) -> String {
     let mut out = String::new();
-    if line.indented(all) {
+    if line.indented(text, all) {
         out.push_str(INDENT);
     }
     if let Some(c) = line.lexemes(all).iter().find(|l| l.token == Token::Comment) {

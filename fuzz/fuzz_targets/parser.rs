@@ -1,0 +1,9 @@
+//! Fuzz target `parser`: arbitrary bytes, read as UTF-8 with bad bytes
+//! replaced, through [`stoik_fuzz::bodies::parser`].
+#![no_main]
+
+use libfuzzer_sys::fuzz_target;
+
+fuzz_target!(|data: &[u8]| {
+    stoik_fuzz::bodies::parser(&stoik_fuzz::text_of(data));
+});
