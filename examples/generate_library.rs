@@ -1,12 +1,12 @@
 //! Write a synthetic reaction library: `cargo run --release --example
-//! generate_library -- DIR REACTIONS [MISTAKE_FRACTION] [FILES]`.
+//! generate_library -- DIR REACTIONS [MISTAKE_FRACTION] [FILES] [SEED]`.
 
 use std::path::PathBuf;
 
 fn main() {
     let args: Vec<String> = std::env::args().skip(1).collect();
     let Some(dir) = args.first().map(PathBuf::from) else {
-        eprintln!("usage: generate_library DIR REACTIONS [MISTAKE_FRACTION] [FILES]");
+        eprintln!("usage: generate_library DIR REACTIONS [MISTAKE_FRACTION] [FILES] [SEED]");
         std::process::exit(2);
     };
     let reactions = args.get(1).and_then(|s| s.parse().ok()).unwrap_or(10_000);
@@ -16,7 +16,7 @@ fn main() {
         reactions,
         mistakes,
         files,
-        seed: 42,
+        seed: args.get(4).and_then(|s| s.parse().ok()).unwrap_or(42),
     });
     if let Err(e) = std::fs::create_dir_all(&dir) {
         eprintln!("error: {}: {e}", dir.display());
