@@ -353,6 +353,10 @@ fn render_code<'t>(
     let mut gap: Option<&str> = None;
     let mut comment = None;
     let mut count = 0usize;
+    // The name's padding goes before the next separator, unless that is a
+    // gap kept as written (it holds a no-break space or the like): padding
+    // it would grow the gap on every pass.
+    let mut pad = 0usize;
     for l in lexemes {
         let piece = &text[l.span.range()];
         match l.token {
@@ -369,11 +373,15 @@ fn render_code<'t>(
                     if sep != gap.unwrap_or("") {
                         cx.gap_changed(p.span, l.span, gap, sep);
                     }
+                    if !kept_as_written(gap) {
+                        push_spaces(out, pad);
+                    }
+                    pad = 0;
                     out.push_str(sep);
                 }
                 out.push_str(piece);
                 if count == 0 {
-                    push_spaces(out, name_pad);
+                    pad = name_pad;
                 }
                 prev = Some(*l);
                 gap = None;
@@ -384,12 +392,17 @@ fn render_code<'t>(
     comment
 }
 
+/// True for a gap that [`separator`] keeps exactly as written.
+fn kept_as_written(gap: Option<&str>) -> bool {
+    gap.is_some_and(|g| g.chars().any(|c| c != ' ' && c != '\t'))
+}
+
 /// The whitespace between two tokens of a line; `gap` is what was written
 /// between them. `after_keyword` marks the gap after a header's keyword.
 fn separator(prev: Token, cur: Token, gap: Option<&str>, after_keyword: bool) -> &str {
     use Token::*;
     if let Some(g) = gap
-        && g.chars().any(|c| c != ' ' && c != '\t')
+        && kept_as_written(gap)
     {
         return g;
     }
