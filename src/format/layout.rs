@@ -388,10 +388,13 @@ fn render_code<'t>(
 /// between them. `after_keyword` marks the gap after a header's keyword.
 fn separator(prev: Token, cur: Token, gap: Option<&str>, after_keyword: bool) -> &str {
     use Token::*;
+    // A gap holding a no-break space or a byte order mark is kept, but not
+    // the blanks around it: they would add to the padding of an aligned
+    // attribute name at every pass.
     if let Some(g) = gap
         && g.chars().any(|c| c != ' ' && c != '\t')
     {
-        return g;
+        return g.trim_matches([' ', '\t']);
     }
     let written = if gap.is_some() { " " } else { "" };
     // `<` and `>` are only tokens of their own in odd text such as a glued
