@@ -401,10 +401,13 @@ fn kept_as_written(gap: Option<&str>) -> bool {
 /// between them. `after_keyword` marks the gap after a header's keyword.
 fn separator(prev: Token, cur: Token, gap: Option<&str>, after_keyword: bool) -> &str {
     use Token::*;
+    // A gap holding a no-break space or a byte order mark is kept, but not
+    // the blanks around it: they would add to the padding of an aligned
+    // attribute name at every pass.
     if let Some(g) = gap
         && kept_as_written(gap)
     {
-        return g;
+        return g.trim_matches([' ', '\t']);
     }
     let written = if gap.is_some() { " " } else { "" };
     // `<` and `>` are only tokens of their own in odd text such as a glued
