@@ -61,12 +61,28 @@ pub fn temperature(t: f64) -> String {
 
 /// K from ln K for messages, without overflowing.
 pub fn k_text(ln_k: f64) -> String {
+    if ln_k.is_nan() {
+        return "NaN".into();
+    }
+    if ln_k.is_infinite() {
+        return if ln_k > 0.0 { "infinity" } else { "0" }.into();
+    }
     let log10 = ln_k / std::f64::consts::LN_10;
     if log10.abs() < 300.0 {
         number(ln_k.exp())
+    } else if log10.abs() < 1e15 {
+        let mut e = log10.floor();
+        let mut mantissa = 10f64.powf(log10 - e);
+        // A mantissa that rounds up to 10 moves to the next power.
+        if (mantissa * 1000.0).round() >= 10_000.0 {
+            mantissa /= 10.0;
+            e += 1.0;
+        }
+        format!("{mantissa:.3}e{}", e as i64)
     } else {
-        let e = log10.floor();
-        format!("{:.3}e{}", 10f64.powf(log10 - e), e as i64)
+        // Past 10^(10^15) the mantissa is lost in the exponent's rounding:
+        // say the power of ten itself.
+        format!("10^({})", number(log10))
     }
 }
 
@@ -182,4 +198,22 @@ fn on_every_core<'a, T: Sync, R: Send>(items: &'a [T], f: impl Fn(&'a T) -> R + 
         }
         out
     })
+}
+
+#[cfg(test)]
+mod tests {
+    use super::k_text;
+
+    #[test]
+    fn k_text_spells_every_size() {
+        assert_eq!(k_text(0.0), "1");
+        assert_eq!(k_text(2000.0 * std::f64::consts::LN_10), "1.000e2000");
+        assert_eq!(k_text(-2000.0 * std::f64::consts::LN_10), "1.000e-2000");
+        // dGf = -1e300 kJ/mol gives ln K of about 4e302 at 298.15 K.
+        assert_eq!(k_text(4.0e302), "10^(1.737e302)");
+        assert_eq!(k_text(-4.0e302), "10^(-1.737e302)");
+        assert_eq!(k_text(f64::INFINITY), "infinity");
+        assert_eq!(k_text(f64::NEG_INFINITY), "0");
+        assert_eq!(k_text(f64::NAN), "NaN");
+    }
 }
