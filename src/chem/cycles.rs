@@ -14,22 +14,21 @@
 //! eliminating pivots in increasing basis order; subtracting vector `k` can
 //! only bring in pivots of younger vectors, so each basis vector is used at
 //! most once per reduction and the reduction always ends. Each basis vector
-//! also stores its expression in terms of the original reactions, so the
-//! combination of a dependent reaction comes out directly.
+//! records how it was made (its reaction, its scale and the older vectors it
+//! was reduced by) and carries the caller's value (ln K) through the same
+//! combination, so a dependent reaction's predicted value comes out at once;
+//! its multipliers in original reactions are expanded only on request.
 //!
-//! Complexity: adding a reaction costs O(Σ_k (nnz(b_k) + nnz(combo_k)))
-//! rational operations over the basis vectors `k` it touches, plus a sort of
-//! the combination terms. The pivot of a new basis vector is its rarest
-//! species (fewest occurrences so far), a Markowitz-style choice that keeps
-//! fill-in low. For sparse libraries whose sub-mechanisms share a pool of
-//! common species the touched set and the stored combinations stay bounded
-//! (about 50 reactions each in the test below, which adds 20,000 reactions
-//! in about 4 s in a debug build on a shared two-core machine), so the total
-//! is linear in the number of reactions; the worst case (dense random networks) is
-//! O(r² · s) for r independent reactions over s species, as for any exact
-//! elimination. Numbers stay on `i64` rationals while they fit and move to
-//! big rationals when they do not; combinations are summed as `i128`
-//! numerators over a common denominator when that fits.
+//! Complexity: adding a reaction costs O(Σ_k nnz(b_k)) rational operations
+//! over the basis vectors `k` it touches. The pivot of a new basis vector is
+//! its rarest species (fewest occurrences so far), a Markowitz-style choice
+//! that keeps fill-in low. For sparse libraries whose sub-mechanisms share a
+//! pool of common species the touched set stays bounded, so the total is
+//! linear in the number of reactions; the worst case (dense random networks)
+//! is O(r² · s) for r independent reactions over s species, as for any exact
+//! elimination. Expanding a combination costs the number of basis vectors it
+//! reaches. Numbers stay on `i64` rationals while they fit and move to big
+//! rationals when they do not.
 
 use std::cmp::Reverse;
 use std::collections::BinaryHeap;
