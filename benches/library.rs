@@ -1,6 +1,6 @@
 //! Benchmarks of the analysis on generated libraries (see
 //! `stoik::synthetic`): lexing, parsing, the full check, the cycle check
-//! alone, `report` and `solve`.
+//! alone, the formatter, `report` and `solve`.
 
 use criterion::{Criterion, criterion_group, criterion_main};
 use std::path::PathBuf;
@@ -45,6 +45,9 @@ fn benches(c: &mut Criterion) {
     group.bench_function("parse", |b| {
         b.iter(|| stoik::syntax::parse(&text).statements.len())
     });
+    // The formatter parses once to find statements with errors, then
+    // lays the rest out: it should cost little more than the parse.
+    group.bench_function("format", |b| b.iter(|| stoik::format::format(&text).len()));
     group.bench_function("check", |b| {
         b.iter(|| analyse(&root, &overlay).diagnostics.len())
     });

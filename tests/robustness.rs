@@ -197,10 +197,8 @@ fn a_very_long_line_is_read() {
     check_long_reaction(1 << 20);
 }
 
-/// The size. About 13 s in a debug build, so it runs on request:
-/// `cargo test --release --test robustness -- --ignored`.
+/// The size, through the whole analysis.
 #[test]
-#[ignore = "10 MB through the whole analysis; run in release with --ignored"]
 fn a_ten_megabyte_reaction_line_is_read() {
     check_long_reaction(10 << 20);
 }
