@@ -693,7 +693,14 @@ impl<'a> Parser<'a> {
         }
         let factor = Ratio::from_integer(value);
         for (_, n) in &mut self.atoms[at..] {
-            *n = n.checked_mul(&factor).ok_or_else(|| {
+            // Whole counts, nearly all of them, multiply without the
+            // reductions a general product of fractions needs.
+            let product = if n.is_integer() {
+                i64::checked_mul(*n.numer(), value).map(Ratio::from_integer)
+            } else {
+                n.checked_mul(&factor)
+            };
+            *n = product.ok_or_else(|| {
                 err(
                     span.clone(),
                     FormulaErrorKind::CountOverflow,
