@@ -34,25 +34,26 @@ pub struct LineIndex {
 impl LineIndex {
     pub fn new(text: &str) -> Self {
         let bytes = text.as_bytes();
-        let mut starts = vec![0];
-        let mut ascii = Vec::new();
-        let mut line_ascii = true;
-        let mut i = 0;
-        while i < bytes.len() {
-            let b = bytes[i];
-            if b == b'\n' || b == b'\r' {
-                if b == b'\r' && bytes.get(i + 1) == Some(&b'\n') {
-                    i += 1;
-                }
-                ascii.push(line_ascii);
-                line_ascii = true;
-                starts.push(i + 1);
-            } else if b >= 0x80 {
-                line_ascii = false;
-            }
-            i += 1;
+        // A fair guess at the line count saves regrowing on large files.
+        let guess = bytes.len() / 32 + 1;
+        let mut starts = Vec::with_capacity(guess);
+        let mut ascii = Vec::with_capacity(guess);
+        starts.push(0);
+        let mut start = 0;
+        // Line breaks are found with a vectorised search and each line is
+        // tested for ASCII as a whole, rather than byte by byte.
+        while let Some(found) = memchr::memchr2(b'\n', b'\r', &bytes[start..]) {
+            let at = start + found;
+            ascii.push(bytes[start..at].is_ascii());
+            let next = if bytes[at] == b'\r' && bytes.get(at + 1) == Some(&b'\n') {
+                at + 2
+            } else {
+                at + 1
+            };
+            starts.push(next);
+            start = next;
         }
-        ascii.push(line_ascii);
+        ascii.push(bytes[start..].is_ascii());
         LineIndex {
             starts,
             ascii,

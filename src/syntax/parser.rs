@@ -61,6 +61,10 @@ fn parse_in_pieces(text: &str, piece_min: usize, workers: usize) -> SourceFile {
             .collect()
     });
     let mut file = SourceFile::default();
+    file.statements
+        .reserve_exact(pieces.iter().map(|p| p.statements.len()).sum());
+    file.comments
+        .reserve_exact(pieces.iter().map(|p| p.comments.len()).sum());
     for piece in pieces {
         file.statements.extend(piece.statements);
         file.comments.extend(piece.comments);
@@ -93,6 +97,9 @@ fn header_cuts(text: &str, pieces: usize) -> Vec<usize> {
 /// Line breaks as the lexer counts them: `\r\n`, `\n` and a lone `\r`.
 fn count_line_breaks(text: &str) -> usize {
     let bytes = text.as_bytes();
+    if memchr::memchr(b'\r', bytes).is_none() {
+        return memchr::memchr_iter(b'\n', bytes).count();
+    }
     let mut n = 0;
     for (i, b) in bytes.iter().enumerate() {
         match b {
