@@ -148,6 +148,41 @@ impl LineIndex {
 #[cfg(test)]
 mod tests {
     use super::*;
+    use proptest::prelude::*;
+
+    /// Line starts and ASCII flags read one byte at a time: what the
+    /// vectorised search in [`LineIndex::new`] must agree with.
+    fn byte_at_a_time(text: &str) -> (Vec<usize>, Vec<bool>) {
+        let bytes = text.as_bytes();
+        let (mut starts, mut ascii, mut line_ascii) = (vec![0], Vec::new(), true);
+        let mut i = 0;
+        while i < bytes.len() {
+            let b = bytes[i];
+            if b == b'\n' || b == b'\r' {
+                if b == b'\r' && bytes.get(i + 1) == Some(&b'\n') {
+                    i += 1;
+                }
+                ascii.push(line_ascii);
+                line_ascii = true;
+                starts.push(i + 1);
+            } else if b >= 0x80 {
+                line_ascii = false;
+            }
+            i += 1;
+        }
+        ascii.push(line_ascii);
+        (starts, ascii)
+    }
+
+    proptest! {
+        #[test]
+        fn agrees_with_a_byte_at_a_time_reading(text in "[a \n\r°⇌𝛥]{0,80}") {
+            let index = LineIndex::new(&text);
+            let (starts, ascii) = byte_at_a_time(&text);
+            prop_assert_eq!(index.starts, starts);
+            prop_assert_eq!(index.ascii, ascii);
+        }
+    }
 
     #[test]
     fn all_three_line_ends_count() {
