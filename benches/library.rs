@@ -59,7 +59,7 @@ fn benches(c: &mut Criterion) {
             let mut dependent = 0;
             for (i, r) in lib.reactions.iter().enumerate() {
                 let v: Vec<(u32, num_rational::Ratio<i64>)> =
-                    r.net().into_iter().map(|(s, x)| (s.0, x)).collect();
+                    r.net().iter().map(|&(s, x)| (s.0, x)).collect();
                 if finder.add(i, &v).is_some() {
                     dependent += 1;
                 }

@@ -54,7 +54,7 @@ pub fn standard_of(lib: &Library, id: crate::model::SpeciesId) -> Standard {
 pub fn delta_n(lib: &Library, r: &Reaction) -> (f64, f64) {
     let mut gas = 0.0;
     let mut aq = 0.0;
-    for (s, c) in r.net() {
+    for &(s, c) in r.net() {
         let c = *c.numer() as f64 / *c.denom() as f64;
         match standard_of(lib, s) {
             Standard::Gas => gas += c,
@@ -164,14 +164,6 @@ fn ratio_f64(r: num_rational::Ratio<i64>) -> f64 {
     *r.numer() as f64 / *r.denom() as f64
 }
 
-/// The reaction's net coefficients as floats, per species.
-fn net_f64(r: &Reaction) -> Vec<(crate::model::SpeciesId, f64)> {
-    r.net()
-        .into_iter()
-        .map(|(s, c)| (s, ratio_f64(c)))
-        .collect()
-}
-
 /// A sum over the species of ν·value, using the formation conventions for
 /// reference elements, H+(aq) and the electron; `None` when a value is missing.
 fn species_sum(
@@ -181,7 +173,8 @@ fn species_sum(
     reference_zero: impl Fn(&crate::model::Species) -> bool,
 ) -> Option<f64> {
     let mut total = 0.0;
-    for (s, nu) in net_f64(r) {
+    for &(s, nu) in r.net() {
+        let nu = ratio_f64(nu);
         let sp = lib.species(s);
         if matches!(
             sp.formula.kind,

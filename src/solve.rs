@@ -228,7 +228,7 @@ pub fn solve_mixture(ws: &Workspace, lib: &Library, m: &Mixture) -> Option<Mixtu
         }
         let mut stoich = Vec::new();
         let mut missing = None;
-        for (s, c) in &net {
+        for (s, c) in net {
             let sp = lib.species(*s);
             if matches!(
                 sp.formula.kind,

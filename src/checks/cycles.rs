@@ -70,12 +70,8 @@ pub(super) fn check(
         let Ok(estimate) = c.k.ln_k_at(t) else {
             continue;
         };
-        let v: Vec<(u32, num_rational::Ratio<i64>)> = c
-            .reaction
-            .net()
-            .into_iter()
-            .map(|(s, x)| (s.0, x))
-            .collect();
+        let v: Vec<(u32, num_rational::Ratio<i64>)> =
+            c.reaction.net().iter().map(|&(s, x)| (s.0, x)).collect();
         if v.is_empty() {
             continue;
         }

@@ -12,11 +12,7 @@ use num_traits::ToPrimitive;
 use rustc_hash::FxHashMap as HashMap;
 
 fn as_u32_vector(c: &Checked) -> Vec<(u32, num_rational::Ratio<i64>)> {
-    c.reaction
-        .net()
-        .into_iter()
-        .map(|(s, v)| (s.0, v))
-        .collect()
+    c.reaction.net().iter().map(|&(s, v)| (s.0, v)).collect()
 }
 
 fn multiple_text(s: f64) -> String {

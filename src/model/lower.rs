@@ -74,6 +74,7 @@ pub fn lower(ws: &Workspace, files: &[FileId], config: &Config) -> (Library, Vec
         by_text: HashMap::default(),
         labels: HashMap::default(),
     };
+    l.reserve(files);
     for &file in files {
         let reader = l.reader(file);
         for s in &ws.file(file).syntax.statements {
@@ -132,6 +133,35 @@ impl<'w> Lowering<'w> {
         let (reader, diags) = UnitReader::for_file(self.ws, file, self.config);
         self.diags.extend(diags);
         reader
+    }
+
+    /// Size the model and the name maps for the statements of `files` up
+    /// front: on large libraries, growing them step by step copied and
+    /// rehashed them over and over.
+    fn reserve(&mut self, files: &[FileId]) {
+        let (mut species, mut reactions, mut terms) = (0, 0, 0);
+        for &file in files {
+            for s in &self.ws.file(file).syntax.statements {
+                match &s.kind {
+                    StatementKind::Species { .. } => species += 1,
+                    StatementKind::Reaction {
+                        equation: Some(eq), ..
+                    } => {
+                        reactions += 1;
+                        terms += eq.left.len() + eq.right.len();
+                    }
+                    _ => {}
+                }
+            }
+        }
+        // Most species of a large library are met in equations; a third of
+        // the terms is a fair guess at how many distinct texts they hold.
+        let texts = species + terms / 3;
+        self.lib.reactions.reserve(reactions);
+        self.lib.species.reserve(texts);
+        self.by_text.reserve(texts);
+        self.by_key.reserve(texts);
+        self.labels.reserve(reactions);
     }
 
     fn push(&mut self, d: Diagnostic) {
@@ -554,6 +584,7 @@ impl<'w> Lowering<'w> {
             equation_loc: Loc::new(file, eq.span),
             arrow: eq.arrow.kind,
             arrow_loc: Loc::new(file, eq.arrow.span),
+            net: Reaction::net_of(&terms),
             terms,
             complete,
             balanced: false,

@@ -181,6 +181,9 @@ pub struct Reaction {
     pub arrow: ArrowKind,
     pub arrow_loc: Loc,
     pub terms: Vec<Term>,
+    /// The net stoichiometric vector of the terms, computed once when the
+    /// reaction is built, since most checks start from it (see [`Reaction::net`]).
+    pub net: Vec<(SpeciesId, Ratio<i64>)>,
     /// False when a species could not be read: the reaction takes part in no
     /// further check.
     pub complete: bool,
@@ -213,9 +216,13 @@ impl Reaction {
 
     /// The net stoichiometric vector: products positive, reactants negative,
     /// species merged, zeros dropped, sorted by species.
-    pub fn net(&self) -> Vec<(SpeciesId, Ratio<i64>)> {
-        let mut v: Vec<(SpeciesId, Ratio<i64>)> = self
-            .terms
+    pub fn net(&self) -> &[(SpeciesId, Ratio<i64>)] {
+        &self.net
+    }
+
+    /// [`Reaction::net`] computed from `terms`.
+    pub fn net_of(terms: &[Term]) -> Vec<(SpeciesId, Ratio<i64>)> {
+        let mut v: Vec<(SpeciesId, Ratio<i64>)> = terms
             .iter()
             .map(|t| {
                 let c = match t.side {
