@@ -134,12 +134,12 @@ pub fn occurrences(ws: &Workspace, target: &Target) -> Vec<Occurrence> {
             };
             match (&s.kind, target) {
                 (StatementKind::Species { alias: Some(a), .. }, Target::Alias(t))
-                    if &a.text == t =>
+                    if a.text == t =>
                 {
                     push(a, true)
                 }
                 (StatementKind::Reaction { label: Some(l), .. }, Target::Label(t))
-                    if &l.text == t =>
+                    if l.text == t =>
                 {
                     push(l, true)
                 }
@@ -150,14 +150,14 @@ pub fn occurrences(ws: &Workspace, target: &Target) -> Vec<Occurrence> {
                     Target::Alias(t),
                 ) => {
                     for term in eq.left.iter().chain(&eq.right) {
-                        if &term.species.text == t {
+                        if term.species.text == t {
                             push(&term.species, false);
                         }
                     }
                 }
                 (StatementKind::Mixture { .. }, Target::Alias(t)) => {
                     for a in &s.attributes {
-                        if &a.name.text == t {
+                        if a.name.text == t {
                             push(&a.name, false);
                         }
                     }
@@ -176,11 +176,11 @@ pub fn target_at(snap: &Snapshot, offset: usize) -> Option<(Target, Span)> {
     if let StatementKind::Reaction { label: Some(l), .. } = &s.kind
         && hit(l.span, offset)
     {
-        return Some((Target::Label(l.text.clone()), l.span));
+        return Some((Target::Label(l.text.to_string()), l.span));
     }
     match item_at(snap, offset)? {
         Item::Species(n) if !looks_like_formula(&n.text) => {
-            let t = Target::Alias(n.text.clone());
+            let t = Target::Alias(n.text.to_string());
             let declared = occurrences(snap.workspace(), &t)
                 .iter()
                 .any(|o| o.declaration);

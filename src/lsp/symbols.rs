@@ -30,7 +30,7 @@ fn found(f: &SourceText) -> Vec<Found> {
                     .as_ref()
                     .map(|e| f.text[e.span.range()].to_string());
                 let (name, name_span) = match (label, &eq_text) {
-                    (Some(l), _) => (l.text.clone(), l.span),
+                    (Some(l), _) => (l.text.to_string(), l.span),
                     (None, Some(t)) => (t.clone(), equation.as_ref().map_or(s.keyword, |e| e.span)),
                     (None, None) => continue,
                 };
@@ -47,15 +47,18 @@ fn found(f: &SourceText) -> Vec<Found> {
                     continue;
                 };
                 out.push(Found {
-                    name: n.text.clone(),
-                    detail: alias.as_ref().and(formula.as_ref()).map(|f| f.text.clone()),
+                    name: n.text.to_string(),
+                    detail: alias
+                        .as_ref()
+                        .and(formula.as_ref())
+                        .map(|f| f.text.to_string()),
                     kind: lsp::SymbolKind::CONSTANT,
                     span: s.span,
                     name_span: n.span,
                 });
             }
             StatementKind::Mixture { name: Some(n) } => out.push(Found {
-                name: n.text.clone(),
+                name: n.text.to_string(),
                 detail: Some("mixture".into()),
                 kind: lsp::SymbolKind::STRUCT,
                 span: s.span,

@@ -4,6 +4,11 @@
 //! matched against what each statement takes, quantities are converted to SI,
 //! and the per-statement checks that need nothing but the statement itself
 //! run: formulas, arrows, the third body and element and charge balance.
+//!
+//! Species are numbered in the order they are first met, so names, labels
+//! and mixtures are read statement by statement; what remains of each
+//! reaction (its balance, its data and their units) depends only on the
+//! statement and the species, and is read on every core.
 
 use super::quantity::{Kind, UnitReader};
 use super::*;
@@ -14,6 +19,7 @@ use crate::diagnostic::{Applicability, Diagnostic, Fix, TextEdit};
 use crate::syntax::ast::{self, ArrowKind, Statement, StatementKind, ValueKind};
 use crate::syntax::parser::truncate;
 use crate::workspace::Workspace;
+use compact_str::CompactString;
 use rustc_hash::FxHashMap as HashMap;
 
 /// The attributes a species takes.
@@ -37,7 +43,7 @@ pub fn balanced_text(
             .zip(coefs)
             .map(|(t, c)| {
                 if *c == num_bigint::BigInt::from(1) {
-                    t.species.text.clone()
+                    t.species.text.to_string()
                 } else {
                     format!("{c} {}", t.species.text)
                 }
@@ -83,24 +89,58 @@ pub fn lower(ws: &Workspace, files: &[FileId], config: &Config) -> (Library, Vec
             }
         }
     }
+    // Names, labels and mixtures are read in statement order, since species
+    // are numbered as they are first met; the rest of each reaction (its
+    // balance and its data) depends on nothing but the statement and the
+    // species, and is read on every core afterwards.
+    let mut readers = Vec::with_capacity(files.len());
+    let mut pending = Vec::with_capacity(l.lib.reactions.capacity());
     for &file in files {
         let reader = l.reader(file);
         for s in &ws.file(file).syntax.statements {
             match &s.kind {
-                StatementKind::Reaction { label, equation } => {
-                    l.reaction_statement(file, &reader, s, label.as_ref(), equation.as_ref())
+                StatementKind::Reaction {
+                    label,
+                    equation: Some(eq),
+                } => {
+                    let head = l.reaction_head(file, readers.len(), s, label.as_ref(), eq);
+                    pending.push(head);
                 }
                 StatementKind::Mixture { name } => {
                     l.mixture_statement(file, &reader, s, name.as_ref())
                 }
-                StatementKind::Units => {}
                 _ => {}
             }
         }
+        readers.push(reader);
+    }
+    let species = &l.lib.species;
+    let built = crate::checks::on_every_core(&pending, |head| {
+        let mut worker = Lowering::worker(ws, config);
+        let reaction = worker.reaction_body(head, &readers[head.reader], species);
+        (reaction, worker.diags)
+    });
+    for (reaction, diags) in built {
+        l.lib.reactions.push(reaction);
+        l.diags.extend(diags);
     }
     l.lib.reactions.shrink_to_fit();
     l.lib.species.shrink_to_fit();
     (l.lib, l.diags)
+}
+
+/// A reaction statement whose names and label have been read, waiting for
+/// the rest of its lowering.
+struct ReactionHead<'a> {
+    file: FileId,
+    /// The index of its file's unit reader.
+    reader: usize,
+    statement: &'a Statement,
+    label: Option<&'a ast::Name>,
+    equation: &'a ast::Equation,
+    terms: Vec<Term>,
+    /// False when a species could not be read.
+    complete: bool,
 }
 
 struct Lowering<'w> {
@@ -108,12 +148,12 @@ struct Lowering<'w> {
     config: &'w Config,
     lib: Library,
     diags: Vec<Diagnostic>,
-    aliases: HashMap<String, SpeciesId>,
+    aliases: HashMap<CompactString, SpeciesId>,
     /// Species by the canonical key of their formula (non-alias species).
     by_key: HashMap<FormulaKey, SpeciesId>,
     /// Resolution of each species text met so far (`None` when it failed).
-    by_text: HashMap<String, Option<SpeciesId>>,
-    labels: HashMap<String, Loc>,
+    by_text: HashMap<CompactString, Option<SpeciesId>>,
+    labels: HashMap<CompactString, Loc>,
 }
 
 /// A key under which two spellings of one formula in one phase meet.
@@ -129,6 +169,21 @@ fn formula_key(f: &crate::chem::formula::Formula) -> FormulaKey {
 }
 
 impl<'w> Lowering<'w> {
+    /// A lowering with no names of its own, for the per-statement work that
+    /// runs on another core; only its diagnostics are kept.
+    fn worker(ws: &'w Workspace, config: &'w Config) -> Self {
+        Lowering {
+            ws,
+            config,
+            lib: Library::default(),
+            diags: Vec::new(),
+            aliases: HashMap::default(),
+            by_key: HashMap::default(),
+            by_text: HashMap::default(),
+            labels: HashMap::default(),
+        }
+    }
+
     fn reader(&mut self, file: FileId) -> UnitReader {
         let (reader, diags) = UnitReader::for_file(self.ws, file, self.config);
         self.diags.extend(diags);
@@ -252,7 +307,12 @@ impl<'w> Lowering<'w> {
                 );
                 return;
             }
-            let id = self.new_species(alias.text.clone(), Some(alias.text.clone()), parsed, loc);
+            let id = self.new_species(
+                alias.text.to_string(),
+                Some(alias.text.to_string()),
+                parsed,
+                loc,
+            );
             self.lib.species[id.0 as usize].declared = Some(loc);
             self.aliases.insert(alias.text.clone(), id);
             id
@@ -278,7 +338,7 @@ impl<'w> Lowering<'w> {
                     prev
                 }
                 None => {
-                    let id = self.new_species(formula_name.text.clone(), None, parsed, loc);
+                    let id = self.new_species(formula_name.text.to_string(), None, parsed, loc);
                     self.lib.species[id.0 as usize].declared = Some(loc);
                     self.by_key.insert(key, id);
                     id
@@ -369,7 +429,8 @@ impl<'w> Lowering<'w> {
                 if let Some(id) = self.by_key.get(&key) {
                     return Some(*id);
                 }
-                let id = self.new_species(name.text.clone(), None, f, Loc::new(file, name.span));
+                let id =
+                    self.new_species(name.text.to_string(), None, f, Loc::new(file, name.span));
                 self.by_key.insert(key, id);
                 Some(id)
             }
@@ -407,7 +468,7 @@ impl<'w> Lowering<'w> {
                 edits: vec![TextEdit {
                     file,
                     span: name.span,
-                    new_text: a,
+                    new_text: a.to_string(),
                 }],
             }),
             None => d.with_help(format!(
@@ -534,16 +595,16 @@ impl<'w> Lowering<'w> {
         }
     }
 
-    fn reaction_statement(
+    /// The part of a reaction statement read in statement order: its label
+    /// and its species.
+    fn reaction_head<'s>(
         &mut self,
         file: FileId,
-        reader: &UnitReader,
-        s: &Statement,
-        label: Option<&ast::Name>,
-        equation: Option<&ast::Equation>,
-    ) {
-        let Some(eq) = equation else { return };
-        let label_loc = label.map(|l| Loc::new(file, l.span));
+        reader: usize,
+        s: &'s Statement,
+        label: Option<&'s ast::Name>,
+        eq: &'s ast::Equation,
+    ) -> ReactionHead<'s> {
         if let Some(l) = label {
             if let Some(prev) = self.labels.get(&l.text).copied() {
                 self.push(
@@ -560,7 +621,7 @@ impl<'w> Lowering<'w> {
                 self.labels.insert(l.text.clone(), Loc::new(file, l.span));
             }
         }
-        let mut terms = Vec::new();
+        let mut terms = Vec::with_capacity(eq.left.len() + eq.right.len());
         let mut complete = true;
         for (side, list) in [(Side::Left, &eq.left), (Side::Right, &eq.right)] {
             for t in list {
@@ -575,9 +636,47 @@ impl<'w> Lowering<'w> {
                 }
             }
         }
+        ReactionHead {
+            file,
+            reader,
+            statement: s,
+            label,
+            equation: eq,
+            terms,
+            complete,
+        }
+    }
+
+    /// The rest of a reaction statement: the reaction with its balance
+    /// checked and its data read. `species` are the library's species.
+    fn reaction_body(
+        &mut self,
+        head: &ReactionHead,
+        reader: &UnitReader,
+        species: &[Species],
+    ) -> Reaction {
+        let ReactionHead {
+            file,
+            statement: s,
+            label,
+            equation: eq,
+            complete,
+            ..
+        } = *head;
+        let terms = head.terms.clone();
+        let label_loc = label.map(|l| Loc::new(file, l.span));
         let header_end = eq.span.end;
+        // Each list is sized for the attributes that fill it, so that
+        // pushing does not over-allocate and the shrinking below does not
+        // copy (a library holds up to millions of them).
+        let count = |names: &[&str]| {
+            s.attributes
+                .iter()
+                .filter(|a| names.contains(&a.name.text.as_str()))
+                .count()
+        };
         let mut reaction = Reaction {
-            label: label.map(|l| l.text.clone()),
+            label: label.map(|l| l.text.to_string()),
             label_loc,
             loc: Loc::new(file, crate::span::Span::new(s.keyword.start, header_end)),
             statement_loc: Loc::new(file, s.span),
@@ -588,11 +687,11 @@ impl<'w> Lowering<'w> {
             terms,
             complete,
             balanced: false,
-            k: Vec::new(),
-            dg: Vec::new(),
-            dh: Vec::new(),
-            ds: Vec::new(),
-            rates: Vec::new(),
+            k: Vec::with_capacity(count(&["K", "logK", "pK", "Kc", "Kp"])),
+            dg: Vec::with_capacity(count(&["dG"])),
+            dh: Vec::with_capacity(count(&["dH"])),
+            ds: Vec::with_capacity(count(&["dS"])),
+            rates: Vec::with_capacity(count(&["kf", "kr", "k"])),
             source: None,
         };
         if eq.arrow.kind == ArrowKind::Resonance {
@@ -616,17 +715,17 @@ impl<'w> Lowering<'w> {
             );
         }
         if complete {
-            reaction.balanced = self.check_balance(file, eq, &reaction);
+            reaction.balanced = self.check_balance_with(file, eq, &reaction, species);
         }
         self.reaction_attributes(file, reader, s, &mut reaction);
-        // Room left by pushing is given back: libraries are large.
+        // Room left by attributes that did not read is given back.
         reaction.terms.shrink_to_fit();
         reaction.k.shrink_to_fit();
         reaction.dg.shrink_to_fit();
         reaction.dh.shrink_to_fit();
         reaction.ds.shrink_to_fit();
         reaction.rates.shrink_to_fit();
-        self.lib.reactions.push(reaction);
+        reaction
     }
 
     fn reaction_attributes(
@@ -814,14 +913,8 @@ impl<'w> Lowering<'w> {
         }
     }
 
-    /// Element, charge and third-body balance; true when balanced.
-    fn check_balance(&mut self, file: FileId, eq: &ast::Equation, r: &Reaction) -> bool {
-        let all_species = std::mem::take(&mut self.lib.species);
-        let ok = self.check_balance_with(file, eq, r, &all_species);
-        self.lib.species = all_species;
-        ok
-    }
-
+    /// Element, charge and third-body balance against the library's
+    /// species `all`; true when balanced.
     fn check_balance_with(
         &mut self,
         file: FileId,
@@ -1004,7 +1097,7 @@ impl<'w> Lowering<'w> {
     ) {
         let Some(name) = name else { return };
         let mut m = Mixture {
-            name: name.text.clone(),
+            name: name.text.to_string(),
             loc: Loc::new(file, s.span),
             temperature_k: None,
             pressure: None,

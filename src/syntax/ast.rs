@@ -6,12 +6,17 @@
 //! parsed but units are not.
 
 use crate::span::Span;
+use compact_str::CompactString;
 use num_rational::Ratio;
 
 /// A piece of source text with its span (a label, an alias, a species token).
+///
+/// The text is a [`CompactString`]: names are short (`H2O(g)`, `kJ/mol`,
+/// `dH`), and a library of 10^5 reactions holds millions of them, which as
+/// `String`s were each a heap allocation to make and to free.
 #[derive(Clone, Debug, PartialEq)]
 pub struct Name {
-    pub text: String,
+    pub text: CompactString,
     pub span: Span,
 }
 

@@ -10,6 +10,7 @@ use super::ast::*;
 use super::lexer::{Lexeme, Token, lex, lexemes};
 use super::value::parse_value;
 use crate::span::Span;
+use compact_str::CompactString;
 use num_rational::Ratio;
 
 /// The statement keywords, in the order the reference lists them.
@@ -241,7 +242,18 @@ impl<'t> Parser<'t> {
                     statement.span.end = statement.span.end.max(last.span.end);
                 }
                 statement.last_line = line_no;
-                statement.attributes.extend(attributes);
+                // Most statements have a few attribute lines: the first
+                // line's vector is taken as it is and a few more are added
+                // exactly, so that the shrinking when the statement ends
+                // has nothing to copy; longer runs grow as usual.
+                if statement.attributes.is_empty() {
+                    statement.attributes = attributes;
+                } else {
+                    if statement.attributes.len() < 4 {
+                        statement.attributes.reserve_exact(attributes.len());
+                    }
+                    statement.attributes.extend(attributes);
+                }
             }
             None => {
                 let span = tokens[0].span.cover(tokens[tokens.len() - 1].span);
@@ -517,15 +529,15 @@ impl<'t> Parser<'t> {
 
     fn name(&self, span: Span) -> Name {
         Name {
-            text: self.slice(span).to_string(),
+            text: CompactString::from(self.slice(span)),
             span,
         }
     }
 
     /// `name = value` items separated by `;` (and by `,` when `commas`).
     fn attributes(&mut self, tokens: &[Lexeme], commas: bool) -> Vec<Attribute> {
-        let mut out = Vec::new();
         let is_sep = |t: Token| t == Token::Semi || (commas && t == Token::Comma);
+        let mut out = Vec::with_capacity(tokens.iter().filter(|l| is_sep(l.token)).count() + 1);
         for item in tokens.split(|l| is_sep(l.token)) {
             if item.is_empty() {
                 continue;
@@ -708,7 +720,12 @@ impl<'t> Parser<'t> {
             );
             return None;
         }
-        let mut terms = Vec::new();
+        // One term per joining `+`, and one more.
+        let joins = items
+            .iter()
+            .filter(|l| l.token == Token::Word && self.slice(l.span) == "+")
+            .count();
+        let mut terms = Vec::with_capacity(joins + 1);
         let mut ok = true;
         let mut i = 0;
         let mut expect_term = true;
@@ -808,7 +825,7 @@ impl<'t> Parser<'t> {
             Some(Term {
                 coefficient: Some(coefficient),
                 species: Name {
-                    text: text[split..].to_string(),
+                    text: CompactString::from(&text[split..]),
                     span: Span::new(cspan.end, l.span.end),
                 },
                 span: l.span,

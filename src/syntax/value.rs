@@ -7,6 +7,7 @@
 use super::ast::*;
 use super::parser::{truncate, unescape};
 use crate::span::Span;
+use compact_str::CompactString;
 
 /// Parse the text of one value; `base` is its byte offset in the file.
 pub fn parse_value(text: &str, base: usize) -> Result<Value, SyntaxError> {
@@ -81,7 +82,7 @@ fn arrhenius(text: &str, base: usize, whole: Span) -> Result<Value, SyntaxError>
         };
         args.push(Attribute {
             name: Name {
-                text: name_text.to_string(),
+                text: CompactString::from(name_text),
                 span: name_span,
             },
             span: name_span.cover(value.span),
@@ -128,7 +129,7 @@ fn simple_quantity(text: &str, base: usize) -> Result<Quantity, SyntaxError> {
     let lead = rest.len() - rest.trim_start().len();
     let unit_text = rest.trim();
     let unit = (!unit_text.is_empty()).then(|| Name {
-        text: unit_text.to_string(),
+        text: CompactString::from(unit_text),
         span: Span::new(base + n + lead, base + n + lead + unit_text.len()),
     });
     Ok(Quantity {

@@ -85,7 +85,7 @@ fn value(kind: &ValueKind) -> Read {
         ValueKind::Text(t) => Read::Text(t.clone()),
         ValueKind::Arrhenius(args) => Read::Arrhenius(
             args.iter()
-                .map(|a| (a.name.text.clone(), value(&a.value.kind)))
+                .map(|a| (a.name.text.to_string(), value(&a.value.kind)))
                 .collect(),
         ),
         ValueKind::Word(w) => Read::Word(unit_text(w)),
@@ -108,11 +108,11 @@ pub fn meaning(text: &str) -> (Vec<StatementMeaning>, Vec<String>) {
                 attributes: s
                     .attributes
                     .iter()
-                    .map(|a| (a.name.text.clone(), value(&a.value.kind)))
+                    .map(|a| (a.name.text.to_string(), value(&a.value.kind)))
                     .collect(),
             };
             let text_of = |n: &Option<stoik::syntax::ast::Name>| {
-                n.as_ref().map(|n| n.text.clone()).unwrap_or_default()
+                n.as_ref().map(|n| n.text.to_string()).unwrap_or_default()
             };
             m.head = match &s.kind {
                 StatementKind::Units => "units".into(),
@@ -129,7 +129,7 @@ pub fn meaning(text: &str) -> (Vec<StatementMeaning>, Vec<String>) {
                             ts.iter()
                                 .map(|t| {
                                     let c = t.coefficient_value();
-                                    (*c.numer(), *c.denom(), t.species.text.clone())
+                                    (*c.numer(), *c.denom(), t.species.text.to_string())
                                 })
                                 .collect::<Vec<_>>()
                         };
