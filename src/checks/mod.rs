@@ -177,10 +177,7 @@ pub fn run(ws: &Workspace, lib: &Library, config: &Config) -> Vec<Diagnostic> {
 }
 
 /// `f` over `items`, in order, split across the cores.
-pub(crate) fn on_every_core<'a, T: Sync, R: Send>(
-    items: &'a [T],
-    f: impl Fn(&'a T) -> R + Sync,
-) -> Vec<R> {
+fn on_every_core<'a, T: Sync, R: Send>(items: &'a [T], f: impl Fn(&'a T) -> R + Sync) -> Vec<R> {
     let workers = std::thread::available_parallelism().map_or(1, std::num::NonZeroUsize::get);
     if workers < 2 || items.len() < 4096 {
         return items.iter().map(f).collect();

@@ -114,16 +114,7 @@ pub fn lower(ws: &Workspace, files: &[FileId], config: &Config) -> (Library, Vec
         }
         readers.push(reader);
     }
-    let species = &l.lib.species;
-    let built = crate::checks::on_every_core(&pending, |head| {
-        let mut worker = Lowering::worker(ws, config);
-        let reaction = worker.reaction_body(head, &readers[head.reader], species);
-        (reaction, worker.diags)
-    });
-    for (reaction, diags) in built {
-        l.lib.reactions.push(reaction);
-        l.diags.extend(diags);
-    }
+    l.reaction_bodies(pending, &readers);
     l.lib.reactions.shrink_to_fit();
     l.lib.species.shrink_to_fit();
     (l.lib, l.diags)
@@ -182,6 +173,50 @@ impl<'w> Lowering<'w> {
             by_text: HashMap::default(),
             labels: HashMap::default(),
         }
+    }
+
+    /// Finish the reactions of `pending`, in order: this thread builds the
+    /// first half straight into the library while another builds the
+    /// second (large libraries only), whose reactions and diagnostics are
+    /// then appended, so that statement order is kept.
+    fn reaction_bodies(&mut self, mut pending: Vec<ReactionHead>, readers: &[UnitReader]) {
+        let (ws, config) = (self.ws, self.config);
+        let cores = std::thread::available_parallelism().map_or(1, std::num::NonZeroUsize::get);
+        let second = if cores > 1 && pending.len() >= 4096 {
+            pending.split_off(pending.len() / 2)
+        } else {
+            Vec::new()
+        };
+        let species = &self.lib.species;
+        let reactions = &mut self.lib.reactions;
+        let diags = &mut self.diags;
+        std::thread::scope(|scope| {
+            let other = (!second.is_empty()).then(|| {
+                scope.spawn(move || {
+                    let mut worker = Lowering::worker(ws, config);
+                    let built: Vec<Reaction> = second
+                        .into_iter()
+                        .map(|head| worker.reaction_body(head, readers, species))
+                        .collect();
+                    (built, worker.diags)
+                })
+            });
+            let mut worker = Lowering::worker(ws, config);
+            for head in pending {
+                reactions.push(worker.reaction_body(head, readers, species));
+            }
+            diags.extend(worker.diags);
+            if let Some(handle) = other {
+                match handle.join() {
+                    Ok((built, more)) => {
+                        reactions.extend(built);
+                        diags.extend(more);
+                    }
+                    // Re-raise on this thread, where the callers catch panics.
+                    Err(panic) => std::panic::resume_unwind(panic),
+                }
+            }
+        });
     }
 
     fn reader(&mut self, file: FileId) -> UnitReader {
@@ -648,22 +683,24 @@ impl<'w> Lowering<'w> {
     }
 
     /// The rest of a reaction statement: the reaction with its balance
-    /// checked and its data read. `species` are the library's species.
+    /// checked and its data read. `species` are the library's species,
+    /// `readers` the unit readers of its files.
     fn reaction_body(
         &mut self,
-        head: &ReactionHead,
-        reader: &UnitReader,
+        head: ReactionHead,
+        readers: &[UnitReader],
         species: &[Species],
     ) -> Reaction {
         let ReactionHead {
             file,
+            reader,
             statement: s,
             label,
             equation: eq,
+            terms,
             complete,
-            ..
-        } = *head;
-        let terms = head.terms.clone();
+        } = head;
+        let reader = &readers[reader];
         let label_loc = label.map(|l| Loc::new(file, l.span));
         let header_end = eq.span.end;
         // Each list is sized for the attributes that fill it, so that
