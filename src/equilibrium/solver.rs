@@ -260,6 +260,8 @@ impl<'a> Solver<'a> {
         // represent.
         let present: Vec<bool> = (0..s).map(|i| self.reacting[i] && self.reach[i]).collect();
         let mut present = present;
+        // The start every set of phases can fall back on (see below).
+        let origin = state.clone();
 
         let mut converged_sets: HashSet<Vec<bool>> = HashSet::new();
         let mut retries = 0;
@@ -312,7 +314,26 @@ impl<'a> Solver<'a> {
                 homotopy: 1.0,
             };
             let before = state.clone();
-            match system.solve_robust(&mut state) {
+            let mut result = system.solve_robust(&mut state);
+            if matches!(result, Err(Failure::Stopped(_))) {
+                // A start carried over from another set of phases can hold
+                // in a phase now absent the only trace of a scarce species
+                // (a solid that took all of it), which leaves Newton's
+                // method too far from this set's root; the starting amounts
+                // are a start that every set reaches.
+                let mut fresh = origin.clone();
+                for (i, &here) in present.iter().enumerate() {
+                    if self.is_condensed(i) && !here {
+                        fresh.set_amount(i, 0.0);
+                    }
+                }
+                let retry = system.solve_robust(&mut fresh);
+                if retry.is_ok() {
+                    state = fresh;
+                    result = retry;
+                }
+            }
+            match result {
                 Ok(k) => iterations += k,
                 Err(Failure::Blocked(i)) => {
                     // The iterate that hit the bound need not be a good

@@ -605,3 +605,80 @@ mod property {
         }
     }
 }
+
+/// A case the property test `well_posed_problems_converge` found: one
+/// product solid takes all of one gas (K = e^64.5), and two others could
+/// form but must not (K = e^-112, and one that would need a trace gas at
+/// 10^5 bar). The solver stalled when it restarted a set of phases from a
+/// state whose only trace of the trace gas was in a dropped solid.
+fn exhausted_gas_problem() -> Problem {
+    let gas = |n: &str, x: f64| species(n, Phase::Gas, 0, x);
+    let solid = |n: &str| species(n, Phase::Condensed, 0, 0.0);
+    Problem {
+        species: vec![
+            gas("C0", 4.378494866733455),
+            gas("C1", 4.610574758563343),
+            gas("C2", 1e-6),
+            gas("C3", 1e-6),
+            gas("C4", 1e-6),
+            gas("C5", 1e-6),
+            solid("P0"),
+            solid("P1"),
+            solid("P2"),
+        ],
+        reactions: vec![
+            Reaction {
+                label: "r0".into(),
+                stoich: vec![(6, 1.0), (1, -1.0), (0, -1.0)],
+                ln_k: 64.49303171635434,
+            },
+            Reaction {
+                label: "r1".into(),
+                stoich: vec![(7, 1.0), (5, -1.0), (0, -1.0)],
+                ln_k: -112.07951295974111,
+            },
+            Reaction {
+                label: "r2".into(),
+                stoich: vec![(8, 1.0), (5, -1.0), (0, -1.0), (1, -1.0)],
+                ln_k: 51.96874007371036,
+            },
+        ],
+        temperature_k: 700.0,
+        vessel: Vessel::ConstantVolume { volume_l: 4.0 },
+        activity: ActivityModel::Ideal,
+    }
+}
+
+#[test]
+fn a_gas_used_up_by_a_solid_leaves_the_others_unformed() {
+    let p = exhausted_gas_problem();
+    let s = solve(&p);
+    assert!(s.converged, "{:?}", s.why);
+    // C0 + C1 -> P0 runs until C0 is gone: P0 takes all of C0, C1 keeps
+    // the rest, and the trace gas C5 stays as it was.
+    let (c0, c1) = (4.378494866733455, 4.610574758563343);
+    assert!(
+        (s.amounts_mol[6] - c0).abs() < 1e-9 * c0,
+        "P0 = {}",
+        s.amounts_mol[6]
+    );
+    assert!(
+        (s.amounts_mol[1] - (c1 - c0)).abs() < 1e-9,
+        "C1 = {}",
+        s.amounts_mol[1]
+    );
+    assert!(
+        (s.amounts_mol[5] - 1e-6).abs() < 1e-15,
+        "C5 = {}",
+        s.amounts_mol[5]
+    );
+    assert_eq!((s.amounts_mol[7], s.amounts_mol[8]), (0.0, 0.0));
+    // With P0 at activity 1, K = 1/(p(C0) p(C1)) in bar (the thermodynamic
+    // K of a heterogeneous equilibrium, e.g. Atkins, "Physical Chemistry");
+    // p = nRT/V with R = 0.08314462618 L bar/(mol K) (CODATA 2018).
+    let rt_v: f64 = 0.083_144_626_18 * 700.0 / 4.0;
+    let ln_p = |i: usize| s.ln_amounts[i] + rt_v.ln();
+    assert!((ln_p(0) + ln_p(1) + 64.49303171635434).abs() < 1e-8);
+    // P2 would need p(C5) p(C0) p(C1) = e^-51.97; the mixture is far below.
+    assert!(ln_p(5) + ln_p(0) + ln_p(1) < -51.96874007371036);
+}
