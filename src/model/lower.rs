@@ -175,18 +175,38 @@ impl<'w> Lowering<'w> {
         }
     }
 
-    /// Finish the reactions of `pending`, in order: this thread builds the
-    /// first half straight into the library while another builds the
-    /// second (large libraries only), whose reactions and diagnostics are
-    /// then appended, so that statement order is kept.
-    fn reaction_bodies(&mut self, mut pending: Vec<ReactionHead>, readers: &[UnitReader]) {
-        let (ws, config) = (self.ws, self.config);
+    /// Finish the reactions of `pending`, in order, in blocks: of each block
+    /// this thread builds the first half straight into the library while
+    /// another builds the second (large libraries only), whose reactions
+    /// and diagnostics are then appended, so that statement order is kept
+    /// and no more than half a block is held apart.
+    fn reaction_bodies(&mut self, pending: Vec<ReactionHead>, readers: &[UnitReader]) {
+        const BLOCK: usize = 16_384;
         let cores = std::thread::available_parallelism().map_or(1, std::num::NonZeroUsize::get);
-        let second = if cores > 1 && pending.len() >= 4096 {
-            pending.split_off(pending.len() / 2)
+        let parallel = cores > 1 && pending.len() >= 4096;
+        let mut rest = pending.into_iter();
+        loop {
+            let block: Vec<ReactionHead> = rest.by_ref().take(BLOCK).collect();
+            if block.is_empty() {
+                break;
+            }
+            self.reaction_block(block, readers, parallel);
+        }
+    }
+
+    fn reaction_block(
+        &mut self,
+        mut block: Vec<ReactionHead>,
+        readers: &[UnitReader],
+        parallel: bool,
+    ) {
+        let (ws, config) = (self.ws, self.config);
+        let second = if parallel {
+            block.split_off(block.len() / 2)
         } else {
             Vec::new()
         };
+        let pending = block;
         let species = &self.lib.species;
         let reactions = &mut self.lib.reactions;
         let diags = &mut self.diags;
@@ -225,33 +245,27 @@ impl<'w> Lowering<'w> {
         reader
     }
 
-    /// Size the model and the name maps for the statements of `files` up
-    /// front: on large libraries, growing them step by step copied and
-    /// rehashed them over and over.
+    /// Size the reactions and the label map for the statements of `files`
+    /// up front: on large libraries, growing them step by step copied and
+    /// rehashed them over and over. The species maps are left to grow, since
+    /// how many distinct species the equations name is not known until they
+    /// are read, and a guess wasted hundreds of MB on 10^6 reactions.
     fn reserve(&mut self, files: &[FileId]) {
-        let (mut species, mut reactions, mut terms) = (0, 0, 0);
+        let (mut reactions, mut labels) = (0, 0);
         for &file in files {
             for s in &self.ws.file(file).syntax.statements {
-                match &s.kind {
-                    StatementKind::Species { .. } => species += 1,
-                    StatementKind::Reaction {
-                        equation: Some(eq), ..
-                    } => {
-                        reactions += 1;
-                        terms += eq.left.len() + eq.right.len();
-                    }
-                    _ => {}
+                if let StatementKind::Reaction {
+                    equation: Some(_),
+                    label,
+                } = &s.kind
+                {
+                    reactions += 1;
+                    labels += usize::from(label.is_some());
                 }
             }
         }
-        // Most species of a large library are met in equations; a third of
-        // the terms is a fair guess at how many distinct texts they hold.
-        let texts = species + terms / 3;
-        self.lib.reactions.reserve(reactions);
-        self.lib.species.reserve(texts);
-        self.by_text.reserve(texts);
-        self.by_key.reserve(texts);
-        self.labels.reserve(reactions);
+        self.lib.reactions.reserve_exact(reactions);
+        self.labels.reserve(labels);
     }
 
     fn push(&mut self, d: Diagnostic) {
