@@ -81,11 +81,12 @@ pub fn lower(ws: &Workspace, files: &[FileId], config: &Config) -> (Library, Vec
         labels: HashMap::default(),
     };
     l.reserve(files);
-    for &file in files {
-        let reader = l.reader(file);
+    // One unit reader per file, for both passes.
+    let readers: Vec<UnitReader> = files.iter().map(|&file| l.reader(file)).collect();
+    for (&file, reader) in files.iter().zip(&readers) {
         for s in &ws.file(file).syntax.statements {
             if let StatementKind::Species { alias, formula } = &s.kind {
-                l.species_statement(file, &reader, s, alias.as_ref(), formula.as_ref());
+                l.species_statement(file, reader, s, alias.as_ref(), formula.as_ref());
             }
         }
     }
@@ -93,26 +94,23 @@ pub fn lower(ws: &Workspace, files: &[FileId], config: &Config) -> (Library, Vec
     // are numbered as they are first met; the rest of each reaction (its
     // balance and its data) depends on nothing but the statement and the
     // species, and is read on every core afterwards.
-    let mut readers = Vec::with_capacity(files.len());
     let mut pending = Vec::with_capacity(l.lib.reactions.capacity());
-    for &file in files {
-        let reader = l.reader(file);
+    for (index, (&file, reader)) in files.iter().zip(&readers).enumerate() {
         for s in &ws.file(file).syntax.statements {
             match &s.kind {
                 StatementKind::Reaction {
                     label,
                     equation: Some(eq),
                 } => {
-                    let head = l.reaction_head(file, readers.len(), s, label.as_ref(), eq);
+                    let head = l.reaction_head(file, index, s, label.as_ref(), eq);
                     pending.push(head);
                 }
                 StatementKind::Mixture { name } => {
-                    l.mixture_statement(file, &reader, s, name.as_ref())
+                    l.mixture_statement(file, reader, s, name.as_ref())
                 }
                 _ => {}
             }
         }
-        readers.push(reader);
     }
     l.reaction_bodies(pending, &readers);
     l.lib.reactions.shrink_to_fit();
@@ -199,17 +197,16 @@ impl<'w> Lowering<'w> {
 
     fn reaction_block(
         &mut self,
-        mut block: Vec<ReactionHead>,
+        mut first: Vec<ReactionHead>,
         readers: &[UnitReader],
         parallel: bool,
     ) {
         let (ws, config) = (self.ws, self.config);
         let second = if parallel {
-            block.split_off(block.len() / 2)
+            first.split_off(first.len() / 2)
         } else {
             Vec::new()
         };
-        let pending = block;
         let species = &self.lib.species;
         let reactions = &mut self.lib.reactions;
         let diags = &mut self.diags;
@@ -225,7 +222,7 @@ impl<'w> Lowering<'w> {
                 })
             });
             let mut worker = Lowering::worker(ws, config);
-            for head in pending {
+            for head in first {
                 reactions.push(worker.reaction_body(head, readers, species));
             }
             diags.extend(worker.diags);

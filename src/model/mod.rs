@@ -182,8 +182,9 @@ pub struct Reaction {
     pub arrow_loc: Loc,
     pub terms: Vec<Term>,
     /// The net stoichiometric vector of the terms, computed once when the
-    /// reaction is built, since most checks start from it (see [`Reaction::net`]).
-    pub net: Vec<(SpeciesId, Ratio<i64>)>,
+    /// reaction is built, since most checks start from it (see
+    /// [`Reaction::net`]); private, so that it always matches `terms`.
+    net: Vec<(SpeciesId, Ratio<i64>)>,
     /// False when a species could not be read: the reaction takes part in no
     /// further check.
     pub complete: bool,
