@@ -59,6 +59,18 @@ impl Q {
         }
     }
 
+    /// A machine rational as kept here: reduced, denominator positive.
+    fn from_ratio(r: &Ratio<i64>) -> Q {
+        let (n, d) = (*r.numer(), *r.denom());
+        if d == 1 {
+            return Q::Small(*r);
+        }
+        if d > 0 && gcd_i64(n, d) == 1 {
+            return Q::Small(*r);
+        }
+        Q::from_big(big(r))
+    }
+
     fn to_big(&self) -> BigRational {
         match self {
             // Small values are kept reduced with a positive denominator, so
@@ -121,6 +133,14 @@ impl Q {
             _ => Q::from_big(self.to_big().recip()),
         }
     }
+}
+
+fn gcd_i64(a: i64, b: i64) -> u64 {
+    let (mut a, mut b) = (a.unsigned_abs(), b.unsigned_abs());
+    while b != 0 {
+        (a, b) = (b, a % b);
+    }
+    a
 }
 
 struct BasisVector {
@@ -308,7 +328,7 @@ impl CycleFinder {
                 self.occurrences.resize(i + 1, 0);
             }
             self.occurrences[i] += 1;
-            scratch.add_to(*s, &Q::from_big(big(c)));
+            scratch.add_to(*s, &Q::from_ratio(c));
         }
         scratch.heap.clear();
         for &s in &scratch.touched {
