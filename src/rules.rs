@@ -301,6 +301,14 @@ to zero (or to another listed reaction), while their K do not combine the same
 way (the Wegscheider condition). The message names the reactions, their
 multipliers and the factor by which the cycle fails.
 
+Where it points: one wrong K makes every cycle through it fail. The finding is
+put on the reaction whose K the failing cycles agree on: if that one K were off
+by the same factor in each of them, all of them would fail exactly as they do.
+Such a reaction gets one finding, which writes out the shortest of its failing
+cycles and counts (and points at) the others. A cycle that no shared error
+explains is reported on the reaction that closes it, the last one read, since a
+single cycle cannot tell which of its members is wrong.
+
 Why it matters: around a closed cycle the product of the K (raised to their
 multipliers) must be 1; otherwise the library implies a perpetual motion and no
 set of concentrations satisfies every equilibrium at once.

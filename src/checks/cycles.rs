@@ -12,7 +12,7 @@ use crate::diagnostic::Diagnostic;
 use crate::model::Library;
 use crate::units::constants::STANDARD_TEMPERATURE;
 use crate::workspace::Workspace;
-use std::collections::HashMap;
+use std::collections::{HashMap, HashSet};
 
 fn reference_temperature(checked: &[&Checked]) -> f64 {
     let mut counts: HashMap<u64, usize> = HashMap::new();
@@ -52,6 +52,226 @@ fn gcd(a: i64, b: i64) -> i64 {
     if b == 0 { a.max(1) } else { gcd(b, a % b) }
 }
 
+/// A cycle that does not close: `subject` equals `Σ m · member`, but its
+/// ln K is not the combination of theirs. Indexes are into the reversible
+/// reactions the check looked at.
+struct Failure {
+    subject: usize,
+    members: Vec<(usize, f64)>,
+    ln_k: f64,
+    predicted: f64,
+}
+
+impl Failure {
+    /// How far off the K of `reaction` would have to be (in ln K) for this
+    /// cycle to miss by `miss`, if that K were the only wrong one; `None`
+    /// for a reaction not in the cycle.
+    fn implied_error(&self, reaction: usize, miss: f64) -> Option<f64> {
+        Some(miss / self.multiplier_of(reaction)?)
+    }
+
+    /// How an error in the ln K of `reaction` enters the cycle's miss: 1
+    /// for the reaction that closes it, minus its multiplier for a member.
+    fn multiplier_of(&self, reaction: usize) -> Option<f64> {
+        if reaction == self.subject {
+            return Some(1.0);
+        }
+        let (_, m) = self.members.iter().find(|(j, _)| *j == reaction)?;
+        Some(-m)
+    }
+
+    fn participants(&self) -> impl Iterator<Item = usize> + '_ {
+        std::iter::once(self.subject).chain(self.members.iter().map(|(j, _)| *j))
+    }
+
+    /// The cycle solved for `reaction`: the members (with multipliers) it
+    /// equals.
+    fn solved_for(&self, reaction: usize) -> Vec<(usize, f64)> {
+        if reaction == self.subject {
+            return self.members.clone();
+        }
+        let m = self
+            .members
+            .iter()
+            .find(|(j, _)| *j == reaction)
+            .map_or(1.0, |(_, m)| *m);
+        let mut terms = vec![(self.subject, 1.0 / m)];
+        terms.extend(
+            self.members
+                .iter()
+                .filter(|(j, _)| *j != reaction)
+                .map(|(j, x)| (*j, -x / m)),
+        );
+        terms
+    }
+}
+
+/// A K found wrong: the failing cycles its one error explains.
+struct Culprit {
+    reaction: usize,
+    /// How far off its ln K is.
+    error: f64,
+    /// Failures this error alone accounts for, in failure order.
+    explained: Vec<usize>,
+    /// Other failures through this reaction whose miss it accounts for in
+    /// part (another wrong K shares their cycle).
+    shared: Vec<usize>,
+}
+
+/// How close (in ln K) two implied errors of one K must be to be the same
+/// error: a factor of 1.05 in K, well above the rounding of K written to
+/// three significant figures summed around a long cycle, well below the
+/// spread of errors from unrelated mistakes.
+const AGREEMENT: f64 = 0.05;
+
+/// A run of agreeing errors must hold at least one in this many of the open
+/// failing cycles through its reaction.
+const SHARE: usize = 5;
+
+/// Rounds of [`blame`] at most; each explains at least one failure, and
+/// real libraries need a handful.
+const BLAME_ROUNDS: usize = 64;
+
+/// Which K to blame for the failing cycles.
+///
+/// One wrong K makes every cycle through it fail, so a library with a few
+/// wrong constants can have thousands of failing cycles, few of which close
+/// at the wrong reaction. If reaction `c` is the one wrong K of a cycle,
+/// the cycle's miss fixes how far off that K is; a reaction whose K really
+/// is wrong gets the same implied error from every failing cycle through
+/// it, while a correct reaction that shares cycles with wrong ones gets
+/// scattered values. So, round by round, the errors on which the most
+/// failing cycles agree are accepted (largest first, each cycle corrected
+/// once per round), every cycle through an accepted reaction is corrected
+/// by its error, and what still misses goes to the next round. Cycles no
+/// shared error explains are left to their closing reaction, as a single
+/// cycle gives no reason to prefer any of its members.
+fn blame(failures: &[Failure], rel: f64) -> (Vec<Culprit>, Vec<usize>) {
+    let mut miss: Vec<f64> = failures.iter().map(|f| f.ln_k - f.predicted).collect();
+    let open = |miss: &[f64], f: usize| miss[f].abs() > tolerance(failures[f].predicted, rel);
+    let mut culprits: Vec<Culprit> = Vec::new();
+    let mut entries: Vec<(usize, f64, usize)> = Vec::new();
+    let mut through: HashMap<usize, Vec<usize>> = HashMap::new();
+    for (f, failure) in failures.iter().enumerate() {
+        for c in failure.participants() {
+            through.entry(c).or_default().push(f);
+        }
+    }
+    let mut accepted: HashSet<usize> = HashSet::new();
+    for _ in 0..BLAME_ROUNDS {
+        entries.clear();
+        for (f, failure) in failures.iter().enumerate() {
+            if !open(&miss, f) {
+                continue;
+            }
+            for c in failure.participants() {
+                if let Some(e) = failure.implied_error(c, miss[f]) {
+                    entries.push((c, e, f));
+                }
+            }
+        }
+        entries.sort_by(|a, b| a.0.cmp(&b.0).then(a.1.total_cmp(&b.1)));
+        // Agreeing errors are runs in sorted order: a run starts at a value
+        // and takes the following ones within AGREEMENT of it. A run counts
+        // when it holds at least two cycles and a good share of the open
+        // cycles through its reaction: a reaction through which very many
+        // cycles pass (one early in a chain of formations) can gather a few
+        // agreeing values by chance while the rest scatter.
+        let mut runs: Vec<(usize, usize)> = Vec::new();
+        let mut first = 0;
+        while first < entries.len() {
+            let c = entries[first].0;
+            let mut last = first;
+            while last < entries.len() && entries[last].0 == c {
+                last += 1;
+            }
+            let through = last - first;
+            let mut i = first;
+            while i < last {
+                let e0 = entries[i].1;
+                let mut end = i + 1;
+                while end < last && entries[end].1 - e0 <= AGREEMENT {
+                    end += 1;
+                }
+                let size = end - i;
+                if size >= 2 && size * SHARE >= through && e0.abs() > AGREEMENT {
+                    runs.push((i, end));
+                }
+                i = end;
+            }
+            first = last;
+        }
+        if runs.is_empty() {
+            break;
+        }
+        // Largest first; among equals the later reaction, as a file is
+        // usually extended at its end.
+        runs.sort_by(|a, b| {
+            (b.1 - b.0)
+                .cmp(&(a.1 - a.0))
+                .then(entries[b.0].0.cmp(&entries[a.0].0))
+        });
+        let mut touched = vec![false; failures.len()];
+        for (start, end) in runs {
+            let run = &entries[start..end];
+            let c = run[0].0;
+            // A K has one error: a reaction is accepted once, with the
+            // error most cycles agree on.
+            if accepted.contains(&c) || run.iter().any(|&(_, _, f)| touched[f]) {
+                continue;
+            }
+            accepted.insert(c);
+            let error = run[run.len() / 2].1;
+            let mut explained: Vec<usize> = run.iter().map(|&(_, _, f)| f).collect();
+            explained.sort_unstable();
+            let mut shared = Vec::new();
+            for &f in through.get(&c).map_or(&[][..], Vec::as_slice) {
+                if !open(&miss, f) || touched[f] {
+                    continue;
+                }
+                let Some(m) = failures[f].multiplier_of(c) else {
+                    continue;
+                };
+                miss[f] -= m * error;
+                touched[f] = true;
+                if explained.binary_search(&f).is_err() {
+                    shared.push(f);
+                }
+            }
+            for &f in &explained {
+                miss[f] = 0.0;
+            }
+            culprits.push(Culprit {
+                reaction: c,
+                error,
+                explained,
+                shared,
+            });
+        }
+    }
+    // A cycle still open that closes at an accepted reaction holds another
+    // wrong K too; it goes with that reaction's finding rather than making
+    // a second one on the same line.
+    let by_reaction: HashMap<usize, usize> = culprits
+        .iter()
+        .enumerate()
+        .map(|(i, c)| (c.reaction, i))
+        .collect();
+    let mut unexplained = Vec::new();
+    for f in (0..failures.len()).filter(|&f| open(&miss, f)) {
+        match by_reaction.get(&failures[f].subject) {
+            Some(&i) => {
+                let c = &mut culprits[i];
+                if !c.shared.contains(&f) && !c.explained.contains(&f) {
+                    c.shared.push(f);
+                }
+            }
+            None => unexplained.push(f),
+        }
+    }
+    (culprits, unexplained)
+}
+
 pub(super) fn check(
     ws: &Workspace,
     _lib: &Library,
@@ -66,6 +286,7 @@ pub(super) fn check(
     let t = reference_temperature(&reversible);
     let mut finder = CycleFinder::new();
     let mut ln_k: Vec<f64> = vec![f64::NAN; reversible.len()];
+    let mut failures: Vec<Failure> = Vec::new();
     for (i, c) in reversible.iter().enumerate() {
         let Ok(estimate) = c.k.ln_k_at(t) else {
             continue;
@@ -90,46 +311,135 @@ pub(super) fn check(
         let members = finder.combination(&dependence);
         // A single member is a duplicate, reverse or multiple: the pair
         // checks report those.
-        if members.len() < 2 || members.iter().any(|(_, m)| !m.is_finite()) {
+        if members.len() < 2 || members.iter().any(|(_, m)| !m.is_finite() || *m == 0.0) {
             continue;
         }
         let predicted: f64 = members.iter().map(|(j, m)| m * ln_k[*j]).sum();
         if (estimate.ln_k - predicted).abs() <= tolerance(predicted, rel) {
             continue;
         }
-        let mut terms: Vec<String> = members
-            .iter()
-            .map(|(j, m)| {
-                format!(
-                    "{} × {}",
-                    multiplier_text(*m),
-                    reversible[*j].reaction.display_name(ws)
-                )
-            })
-            .collect();
-        terms.sort();
-        let mut d = Diagnostic::new(
-            "cycle-inconsistent",
-            c.reaction.loc.file,
-            c.reaction.loc.span,
-            format!(
-                "this reaction equals {}, so at {} K its K should be {}, but it is {}: the cycle fails by a factor of {}",
-                terms.join(" + "),
-                temperature(t),
-                k_text(predicted),
-                k_text(estimate.ln_k),
-                k_text(estimate.ln_k - predicted)
-            ),
-        )
-        .with_help("around a closed cycle the K multiply to 1 (Wegscheider); correct the K that is wrong or derive it from the others");
-        for (j, m) in &members {
-            let r = reversible[*j].reaction;
-            d = d.with_related(
-                r.loc.file,
-                r.loc.span,
-                format!("member of the cycle, multiplier {}", multiplier_text(*m)),
-            );
-        }
-        out.push(d);
+        failures.push(Failure {
+            subject: i,
+            members,
+            ln_k: estimate.ln_k,
+            predicted,
+        });
     }
+    let (culprits, unexplained) = blame(&failures, rel);
+    for culprit in &culprits {
+        out.push(report(ws, &reversible, &ln_k, t, &failures, culprit));
+    }
+    for f in unexplained {
+        let alone = Culprit {
+            reaction: failures[f].subject,
+            error: failures[f].ln_k - failures[f].predicted,
+            explained: vec![f],
+            shared: Vec::new(),
+        };
+        out.push(report(ws, &reversible, &ln_k, t, &failures, &alone));
+    }
+}
+
+/// Most other failing cycles listed under one finding.
+const LISTED_CYCLES: usize = 20;
+
+/// One finding for the failing cycles blamed on the K of `culprit`: the
+/// shortest of them written out, the others counted and pointed at.
+fn report(
+    ws: &Workspace,
+    reversible: &[&Checked],
+    ln_k: &[f64],
+    t: f64,
+    failures: &[Failure],
+    blamed: &Culprit,
+) -> Diagnostic {
+    let culprit = blamed.reaction;
+    // The cycle written out is the shortest one whose whole miss is this
+    // K's error (a later round may have explained a cycle that also holds
+    // another wrong K, whose own miss would confuse the message).
+    let alone = |f: usize| {
+        failures[f]
+            .implied_error(culprit, failures[f].ln_k - failures[f].predicted)
+            .is_some_and(|e| (e - blamed.error).abs() <= AGREEMENT)
+    };
+    let shown = blamed
+        .explained
+        .iter()
+        .copied()
+        .min_by_key(|&f| (!alone(f), failures[f].members.len(), f))
+        .unwrap_or(blamed.explained[0]);
+    let terms = failures[shown].solved_for(culprit);
+    let predicted: f64 = terms.iter().map(|(j, m)| m * ln_k[*j]).sum();
+    let actual = ln_k[culprit];
+    let mut texts: Vec<String> = terms
+        .iter()
+        .map(|(j, m)| {
+            format!(
+                "{} × {}",
+                multiplier_text(*m),
+                reversible[*j].reaction.display_name(ws)
+            )
+        })
+        .collect();
+    texts.sort();
+    let mut message = format!(
+        "this reaction equals {}, so at {} K its K should be {}, but it is {}: the cycle fails by a factor of {}",
+        texts.join(" + "),
+        temperature(t),
+        k_text(predicted),
+        k_text(actual),
+        k_text(actual - predicted)
+    );
+    let others = blamed.explained.len() - 1;
+    if others > 0 {
+        message.push_str(&format!(
+            "; {others} more failing {} through this reaction {} by the same error in its K",
+            cycles(others),
+            if others == 1 { "misses" } else { "miss" },
+        ));
+    }
+    if !blamed.shared.is_empty() {
+        message.push_str(&format!(
+            "; it accounts for part of the miss of {} more, which {} another wrong K",
+            blamed.shared.len(),
+            if blamed.shared.len() == 1 {
+                "holds"
+            } else {
+                "hold"
+            },
+        ));
+    }
+    let r = reversible[culprit].reaction;
+    let mut d = Diagnostic::new("cycle-inconsistent", r.loc.file, r.loc.span, message)
+        .with_help("around a closed cycle the K multiply to 1 (Wegscheider); correct the K that is wrong or derive it from the others");
+    for (j, m) in &terms {
+        let member = reversible[*j].reaction;
+        d = d.with_related(
+            member.loc.file,
+            member.loc.span,
+            format!("member of the cycle, multiplier {}", multiplier_text(*m)),
+        );
+    }
+    let others = blamed.explained.iter().chain(&blamed.shared);
+    for &f in others.filter(|&&f| f != shown).take(LISTED_CYCLES) {
+        let failure = &failures[f];
+        let (at, note) = if failure.subject == culprit {
+            (
+                failure.members.first().map_or(culprit, |(j, _)| *j),
+                "another failing cycle, which this reaction closes, passes here",
+            )
+        } else {
+            (
+                failure.subject,
+                "another failing cycle through this reaction closes here",
+            )
+        };
+        let other = reversible[at].reaction;
+        d = d.with_related(other.loc.file, other.loc.span, note);
+    }
+    d
+}
+
+fn cycles(n: usize) -> &'static str {
+    if n == 1 { "cycle" } else { "cycles" }
 }
