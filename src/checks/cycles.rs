@@ -170,7 +170,8 @@ fn blame(failures: &[Failure], rel: f64) -> (Vec<Culprit>, Vec<usize>) {
                 }
             }
         }
-        entries.sort_by(|a, b| a.0.cmp(&b.0).then(a.1.total_cmp(&b.1)));
+        entries
+            .sort_unstable_by(|a, b| a.0.cmp(&b.0).then(a.1.total_cmp(&b.1)).then(a.2.cmp(&b.2)));
         // Agreeing errors are runs in sorted order: a run starts at a value
         // and takes the following ones within AGREEMENT of it. A run counts
         // when it holds at least two cycles and a good share of the open
@@ -186,7 +187,9 @@ fn blame(failures: &[Failure], rel: f64) -> (Vec<Culprit>, Vec<usize>) {
                 last += 1;
             }
             let through = last - first;
-            let mut i = first;
+            // A K has one error: a reaction is accepted once, with the
+            // error most cycles agree on.
+            let mut i = if accepted.contains(&c) { last } else { first };
             while i < last {
                 let e0 = entries[i].1;
                 let mut end = i + 1;
@@ -215,8 +218,6 @@ fn blame(failures: &[Failure], rel: f64) -> (Vec<Culprit>, Vec<usize>) {
         for (start, end) in runs {
             let run = &entries[start..end];
             let c = run[0].0;
-            // A K has one error: a reaction is accepted once, with the
-            // error most cycles agree on.
             if accepted.contains(&c) || run.iter().any(|&(_, _, f)| touched[f]) {
                 continue;
             }
