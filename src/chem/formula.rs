@@ -236,8 +236,81 @@ fn parse(text: &str, suggest: bool) -> Result<Formula, FormulaError> {
         }
         _ => {}
     }
+    if let Some(formula) = plain(text) {
+        return Ok(formula);
+    }
     let mut p = Parser::new(text, suggest);
     p.run()
+}
+
+/// Most elements a [`plain`] formula may name before the general reader
+/// takes it.
+const PLAIN_SYMBOLS: usize = 12;
+
+/// The reading of the most common kind of formula, element symbols with
+/// whole ASCII counts and an optional phase tag (`C2H6(g)`, `H2O`), without
+/// the general reader's bookkeeping for groups, hydrates, charges and
+/// error messages. `None` sends the text to the general reader, which gives
+/// the same result on everything this accepts (a property test holds the
+/// two together).
+fn plain(text: &str) -> Option<Formula> {
+    let bytes = text.as_bytes();
+    let mut atoms = [(0u8, 0i64); PLAIN_SYMBOLS];
+    let mut len = 0;
+    let mut i = 0;
+    while i < bytes.len() && bytes[i].is_ascii_uppercase() {
+        let start = i;
+        i += 1;
+        if i < bytes.len() && bytes[i].is_ascii_lowercase() {
+            i += 1;
+        }
+        let z = elements::by_symbol(&text[start..i])?.z;
+        let mut count: i64 = 1;
+        if i < bytes.len() && bytes[i].is_ascii_digit() {
+            // A leading zero, a count of zero and long counts are left to
+            // the general reader and its messages.
+            if bytes[i] == b'0' {
+                return None;
+            }
+            count = 0;
+            let digits = i;
+            while i < bytes.len() && bytes[i].is_ascii_digit() {
+                count = count * 10 + i64::from(bytes[i] - b'0');
+                i += 1;
+                if i - digits > 9 {
+                    return None;
+                }
+            }
+        }
+        if len == PLAIN_SYMBOLS {
+            return None;
+        }
+        atoms[len] = (z, count);
+        len += 1;
+    }
+    if len == 0 {
+        return None;
+    }
+    let phase = match &text[i..] {
+        "" => None,
+        rest => Some(Phase::from_tag(rest.strip_prefix('(')?.strip_suffix(')')?)?),
+    };
+    let atoms = &mut atoms[..len];
+    atoms.sort_unstable_by_key(|(z, _)| *z);
+    let mut composition: Vec<(u8, Ratio<i64>)> = Vec::with_capacity(len);
+    for &(z, n) in atoms.iter() {
+        match composition.last_mut() {
+            Some((lz, ln)) if *lz == z => *ln = Ratio::from_integer(ln.numer() + n),
+            _ => composition.push((z, Ratio::from_integer(n))),
+        }
+    }
+    Some(Formula {
+        kind: SpeciesKind::Compound,
+        composition,
+        charge: 0,
+        phase,
+        reading_note: None,
+    })
 }
 
 /// The phase of an electron token (`e-`, `e^-`, `e⁻`, each optionally with a
@@ -1472,6 +1545,42 @@ mod tests {
         #[test]
         fn formula_alphabet_never_panics(s in "[A-Za-z0-9()\\[\\]^+\\-·*.₀-₉⁰¹²³⁴-⁹⁺⁻]{0,30}") {
             check_error_span(&s);
+        }
+
+        /// The plain-formula shortcut reads exactly as the general reader
+        /// does wherever it answers at all.
+        #[test]
+        fn plain_formulas_read_as_the_general_reader_does(
+            pieces in proptest::collection::vec(proptest::sample::select(vec![
+                "H", "C", "O", "N", "Cl", "Co", "Fe", "S", "Xx", "c", "0", "1", "2",
+                "10", "007", "9999999999", "(g)", "(aq)", "(s)", "(l)", "(x)", "(",
+                ")", "+", "-", "^2+", "[", "·", "*", "₂", ".5",
+            ]), 1..8)
+        ) {
+            let text = pieces.concat();
+            if let Some(fast) = plain(&text) {
+                let general = Parser::new(&text, true).run();
+                prop_assert_eq!(Ok(fast), general, "{}", text);
+            }
+        }
+    }
+
+    #[test]
+    fn common_formulas_take_the_plain_reading() {
+        for text in [
+            "C2H6(g)",
+            "H2O",
+            "H2O(l)",
+            "NaCl(s)",
+            "CH4",
+            "C12H22O11(aq)",
+            "O2",
+        ] {
+            assert!(plain(text).is_some(), "{text}");
+            assert_eq!(plain(text), Parser::new(text, true).run().ok(), "{text}");
+        }
+        for text in ["Fe(OH)3", "NH4+", "SO4^2-", "CuSO4·5H2O", "H0", "e-", "Hz"] {
+            assert!(plain(text).is_none(), "{text}");
         }
     }
 
