@@ -253,7 +253,7 @@ pub(super) fn temperatures(
     let _ = ws;
     for m in &lib.mixtures {
         let Some(t) = m.temperature_k else { continue };
-        let present: std::collections::HashSet<_> = m.entries.iter().map(|e| e.species).collect();
+        let present: rustc_hash::FxHashSet<_> = m.entries.iter().map(|e| e.species).collect();
         for c in checked.iter().filter(|c| c.reaction.reversible()) {
             let involved = c.reaction.net();
             if involved.is_empty()

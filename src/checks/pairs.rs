@@ -3,7 +3,7 @@
 //! times n has K^n).
 
 use super::{Checked, k_text, number, temperature, tolerance};
-use crate::chem::cycles::{CanonicalKey, canonical_key};
+use crate::chem::cycles::{CanonicalKey, canonical_form, canonical_key};
 use crate::diagnostic::{Applicability, Diagnostic, Fix, TextEdit};
 use crate::model::{KForm, Library};
 use crate::workspace::Workspace;
@@ -42,19 +42,22 @@ pub(super) fn check(
     rel: f64,
     out: &mut Vec<Diagnostic>,
 ) {
-    let mut groups: HashMap<CanonicalKey, Vec<(usize, BigRational)>> = HashMap::default();
+    let mut groups: HashMap<CanonicalKey, Vec<usize>> = HashMap::default();
     for (i, c) in checked.iter().enumerate() {
         let v = as_u32_vector(c);
         if v.is_empty() {
             continue;
         }
-        let (key, scale) = canonical_key(&v);
-        groups.entry(key).or_default().push((i, scale));
+        groups.entry(canonical_form(&v)).or_default().push(i);
     }
-    let mut ordered: Vec<&Vec<(usize, BigRational)>> =
-        groups.values().filter(|g| g.len() > 1).collect();
-    ordered.sort_by_key(|g| g[0].0);
-    for group in ordered {
+    let mut ordered: Vec<&Vec<usize>> = groups.values().filter(|g| g.len() > 1).collect();
+    ordered.sort_by_key(|g| g[0]);
+    for members in ordered {
+        // Only reactions that meet another need their scale.
+        let group: Vec<(usize, BigRational)> = members
+            .iter()
+            .map(|&i| (i, canonical_key(&as_u32_vector(&checked[i])).1))
+            .collect();
         let (first, first_scale) = &group[0];
         let a = &checked[*first];
         for (other, scale) in &group[1..] {

@@ -464,11 +464,32 @@ impl CanonicalKey {
 /// to the key. A vector with no nonzero coefficient has an empty key and
 /// scale zero.
 pub fn canonical_key(vector: &[(u32, Ratio<i64>)]) -> (CanonicalKey, BigRational) {
-    canonical_small(vector).unwrap_or_else(|| canonical_big(vector))
+    match canonical_small(vector) {
+        Some((key, first, lead)) => {
+            // vector = first / key[0] · key.
+            let scale = BigRational::new(
+                BigInt::from(*first.numer()),
+                BigInt::from(*first.denom()) * BigInt::from(lead),
+            );
+            (key, scale)
+        }
+        None => canonical_big(vector),
+    }
 }
 
-/// [`canonical_key`] on `i64`; `None` when a value does not fit.
-fn canonical_small(vector: &[(u32, Ratio<i64>)]) -> Option<(CanonicalKey, BigRational)> {
+/// The key of [`canonical_key`] alone, without building the scale: most
+/// reactions meet no other, and only those that do need it.
+pub fn canonical_form(vector: &[(u32, Ratio<i64>)]) -> CanonicalKey {
+    match canonical_small(vector) {
+        Some((key, _, _)) => key,
+        None => canonical_big(vector).0,
+    }
+}
+
+/// [`canonical_key`] on `i64`: the key, the first nonzero coefficient and
+/// the key's first entry (`scale = first / lead`); `None` when a value does
+/// not fit.
+fn canonical_small(vector: &[(u32, Ratio<i64>)]) -> Option<(CanonicalKey, Ratio<i64>, i64)> {
     let mut v: Vec<(u32, Ratio<i64>)> = Vec::with_capacity(vector.len());
     for (s, c) in vector {
         if *c.denom() == 0 {
@@ -491,7 +512,7 @@ fn canonical_small(vector: &[(u32, Ratio<i64>)]) -> Option<(CanonicalKey, BigRat
     }
     merged.retain(|(_, c)| !c.is_zero());
     let Some(first) = merged.first().map(|(_, c)| *c) else {
-        return Some((CanonicalKey::Small(Vec::new()), BigRational::zero()));
+        return Some((CanonicalKey::Small(Vec::new()), Ratio::zero(), 1));
     };
     let mut lcm: i64 = 1;
     for (_, c) in &merged {
@@ -510,12 +531,8 @@ fn canonical_small(vector: &[(u32, Ratio<i64>)]) -> Option<(CanonicalKey, BigRat
     for (_, n) in &mut ints {
         *n /= unit;
     }
-    // vector = first / key[0] · key.
-    let scale = BigRational::new(
-        BigInt::from(*first.numer()),
-        BigInt::from(*first.denom()) * BigInt::from(ints[0].1),
-    );
-    Some((CanonicalKey::Small(ints), scale))
+    let lead = ints[0].1;
+    Some((CanonicalKey::Small(ints), first, lead))
 }
 
 /// [`canonical_key`] on big integers.

@@ -12,7 +12,7 @@ pub mod formula;
 pub use balance::{
     BalanceFailure, BalanceOutcome, ElementTotals, Residual, Side, balance, residuals,
 };
-pub use cycles::{CanonicalKey, CycleFinder, canonical_key};
+pub use cycles::{CanonicalKey, CycleFinder, canonical_form, canonical_key};
 pub use elements::Element;
 pub use formula::{
     Formula, FormulaError, FormulaErrorKind, Phase, SpeciesKind, looks_like_formula, parse_formula,

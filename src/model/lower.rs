@@ -366,8 +366,8 @@ impl<'w> Lowering<'w> {
                 return;
             }
             let id = self.new_species(
-                alias.text.to_string(),
-                Some(alias.text.to_string()),
+                alias.text.as_str().to_owned(),
+                Some(alias.text.as_str().to_owned()),
                 parsed,
                 loc,
             );
@@ -396,7 +396,8 @@ impl<'w> Lowering<'w> {
                     prev
                 }
                 None => {
-                    let id = self.new_species(formula_name.text.to_string(), None, parsed, loc);
+                    let id =
+                        self.new_species(formula_name.text.as_str().to_owned(), None, parsed, loc);
                     self.lib.species[id.0 as usize].declared = Some(loc);
                     self.by_key.insert(key, id);
                     id
@@ -487,8 +488,12 @@ impl<'w> Lowering<'w> {
                 if let Some(id) = self.by_key.get(&key) {
                     return Some(*id);
                 }
-                let id =
-                    self.new_species(name.text.to_string(), None, f, Loc::new(file, name.span));
+                let id = self.new_species(
+                    name.text.as_str().to_owned(),
+                    None,
+                    f,
+                    Loc::new(file, name.span),
+                );
                 self.by_key.insert(key, id);
                 Some(id)
             }
@@ -736,7 +741,7 @@ impl<'w> Lowering<'w> {
                 .count()
         };
         let mut reaction = Reaction {
-            label: label.map(|l| l.text.to_string()),
+            label: label.map(|l| l.text.as_str().to_owned()),
             label_loc,
             loc: Loc::new(file, crate::span::Span::new(s.keyword.start, header_end)),
             statement_loc: Loc::new(file, s.span),
@@ -1157,7 +1162,7 @@ impl<'w> Lowering<'w> {
     ) {
         let Some(name) = name else { return };
         let mut m = Mixture {
-            name: name.text.to_string(),
+            name: name.text.as_str().to_owned(),
             loc: Loc::new(file, s.span),
             temperature_k: None,
             pressure: None,

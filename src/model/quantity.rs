@@ -9,7 +9,7 @@ use crate::syntax::ast::{Quantity, StatementKind, ValueKind};
 use crate::syntax::parser::truncate;
 use crate::units::{Dimension, Unit, constants::GAS_CONSTANT, parse_unit};
 use crate::workspace::Workspace;
-use std::collections::HashMap;
+use rustc_hash::FxHashMap as HashMap;
 
 /// What an attribute's value must be.
 #[derive(Clone, Copy, Debug, PartialEq, Eq)]
@@ -84,7 +84,7 @@ impl UnitReader {
         file: FileId,
         config: &Config,
     ) -> (UnitReader, Vec<Diagnostic>) {
-        let mut defaults = HashMap::new();
+        let mut defaults = HashMap::default();
         let mut diags = Vec::new();
         for (kind, text) in &config.units {
             if let Ok(unit) = parse_unit(text) {

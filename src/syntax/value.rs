@@ -161,14 +161,15 @@ pub fn parse_number(text: &str, span: Span) -> Result<f64, SyntaxError> {
 fn split_at_keyword(text: &str) -> (&str, Option<usize>) {
     let bytes = text.as_bytes();
     let mut i = 0;
-    while let Some(pos) = text[i..].find("at") {
+    while let Some(pos) = memchr::memchr(b'a', &bytes[i..]) {
         let at = i + pos;
+        let word = bytes.get(at + 1) == Some(&b't');
         let before_ok = at > 0 && bytes[at - 1].is_ascii_whitespace();
         let after_ok = at + 2 < bytes.len() && bytes[at + 2].is_ascii_whitespace();
-        if before_ok && after_ok {
+        if word && before_ok && after_ok {
             return (&text[..at], Some(at));
         }
-        i = at + 2;
+        i = at + 1;
     }
     (text, None)
 }
