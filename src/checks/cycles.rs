@@ -35,6 +35,10 @@ fn reference_temperature(checked: &[&Checked]) -> f64 {
         if n > best.1 {
             best = (t, n);
         }
+        // No later candidate can do better than every reaction.
+        if best.1 == checked.len() {
+            break;
+        }
     }
     best.0
 }
@@ -288,12 +292,13 @@ pub(super) fn check(
     let mut finder = CycleFinder::new();
     let mut ln_k: Vec<f64> = vec![f64::NAN; reversible.len()];
     let mut failures: Vec<Failure> = Vec::new();
+    let mut v: Vec<(u32, num_rational::Ratio<i64>)> = Vec::new();
     for (i, c) in reversible.iter().enumerate() {
         let Ok(estimate) = c.k.ln_k_at(t) else {
             continue;
         };
-        let v: Vec<(u32, num_rational::Ratio<i64>)> =
-            c.reaction.net().iter().map(|&(s, x)| (s.0, x)).collect();
+        v.clear();
+        v.extend(c.reaction.net().iter().map(|&(s, x)| (s.0, x)));
         if v.is_empty() {
             continue;
         }
