@@ -401,12 +401,36 @@ impl CycleFinder {
     /// reaction id, nonzero multipliers only. Each basis vector refers only
     /// to older ones, so taking the newest first visits each once.
     fn expand(&self, used: &[(u32, Q)]) -> Vec<(usize, Q)> {
-        let mut pending: std::collections::BTreeMap<u32, Q> = std::collections::BTreeMap::new();
+        // Multipliers still to expand, by basis vector, and the order to
+        // take them in: newest first (a max-heap of the pending indexes,
+        // each pushed once, when its multiplier appears).
+        let mut pending: rustc_hash::FxHashMap<u32, Q> = rustc_hash::FxHashMap::default();
+        let mut order: BinaryHeap<u32> = BinaryHeap::new();
+        fn add(
+            pending: &mut rustc_hash::FxHashMap<u32, Q>,
+            order: &mut BinaryHeap<u32>,
+            k: u32,
+            x: Q,
+        ) {
+            match pending.entry(k) {
+                std::collections::hash_map::Entry::Occupied(mut slot) => {
+                    let sum = slot.get().add(&x);
+                    *slot.get_mut() = sum;
+                }
+                std::collections::hash_map::Entry::Vacant(slot) => {
+                    slot.insert(x);
+                    order.push(k);
+                }
+            }
+        }
         for (k, c) in used {
-            add_into(&mut pending, *k, c);
+            add(&mut pending, &mut order, *k, c.clone());
         }
         let mut out: Vec<(usize, Q)> = Vec::new();
-        while let Some((k, a)) = pending.pop_last() {
+        while let Some(k) = order.pop() {
+            let Some(a) = pending.remove(&k) else {
+                continue;
+            };
             if a.is_zero() {
                 continue;
             }
@@ -414,7 +438,7 @@ impl CycleFinder {
             // b = scale · (r − Σ c_j b_j), so a · b = t · r − Σ t c_j b_j.
             let t = a.mul(&b.scale);
             for (j, c) in &b.reduced_by {
-                add_into(&mut pending, *j, &t.mul(c).neg());
+                add(&mut pending, &mut order, *j, t.mul(c).neg());
             }
             out.push((b.reaction, t));
         }
@@ -429,11 +453,6 @@ impl CycleFinder {
         merged.retain(|(_, m)| !m.is_zero());
         merged
     }
-}
-
-fn add_into(map: &mut std::collections::BTreeMap<u32, Q>, k: u32, x: &Q) {
-    let slot = map.entry(k).or_insert(Q::Small(Ratio::zero()));
-    *slot = slot.add(x);
 }
 
 /// The canonical stoichiometry of a reaction: duplicates, reverses and
