@@ -190,7 +190,7 @@ fn blame(failures: &[Failure], rel: f64) -> (Vec<Culprit>, Vec<usize>) {
             while last < entries.len() && entries[last].0 == c {
                 last += 1;
             }
-            let through = last - first;
+            let open_through = last - first;
             // A K has one error: a reaction is accepted once, with the
             // error most cycles agree on.
             let mut i = if accepted.contains(&c) { last } else { first };
@@ -201,7 +201,7 @@ fn blame(failures: &[Failure], rel: f64) -> (Vec<Culprit>, Vec<usize>) {
                     end += 1;
                 }
                 let size = end - i;
-                if size >= 2 && size * SHARE >= through && e0.abs() > AGREEMENT {
+                if size >= 2 && size * SHARE >= open_through && e0.abs() > AGREEMENT {
                     runs.push((i, end));
                 }
                 i = end;
