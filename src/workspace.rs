@@ -16,6 +16,14 @@ use std::path::{Path, PathBuf};
 /// Where file contents come from.
 pub trait FileSource {
     fn read(&self, path: &Path) -> std::io::Result<Vec<u8>>;
+
+    /// An earlier text of the file at `path` and its syntax tree, when the
+    /// caller kept them: a new text is then parsed by reusing that tree
+    /// ([`crate::syntax::reparse`]), which is how the language server keeps
+    /// up with typing in a large file.
+    fn earlier(&self, _path: &Path) -> Option<(&str, &SourceFile)> {
+        None
+    }
 }
 
 /// The file system, with in-memory texts (unsaved editor buffers, standard
@@ -95,6 +103,11 @@ struct Parsed {
 
 impl Parsed {
     fn of(bytes: Vec<u8>) -> Parsed {
+        Parsed::reusing(bytes, None)
+    }
+
+    /// Decode and parse `bytes`, reusing an earlier text and tree if given.
+    fn reusing(bytes: Vec<u8>, earlier: Option<(&str, &SourceFile)>) -> Parsed {
         let (text, bad_utf8) = match String::from_utf8(bytes) {
             Ok(text) => (text, None),
             Err(e) => {
@@ -102,7 +115,10 @@ impl Parsed {
                 (String::from_utf8_lossy(e.as_bytes()).into_owned(), Some(at))
             }
         };
-        let syntax = crate::syntax::parse(&text);
+        let syntax = match earlier {
+            Some((old_text, old)) => crate::syntax::reparse(old_text, old, &text),
+            None => crate::syntax::parse(&text),
+        };
         let index = LineIndex::new(&text);
         Parsed {
             text,
@@ -188,7 +204,9 @@ impl Workspace {
     fn read_parsed(&mut self, path: &Path, source: &dyn FileSource) -> std::io::Result<Parsed> {
         match self.preparsed.remove(path) {
             Some(p) => Ok(p),
-            None => source.read(path).map(Parsed::of),
+            None => source
+                .read(path)
+                .map(|bytes| Parsed::reusing(bytes, source.earlier(path))),
         }
     }
 

@@ -310,7 +310,7 @@ fn from_check(dir: &std::path::Path, text: &str) -> Vec<Finding> {
 /// A fresh in-process analysis of the text, as the server renders it.
 fn fresh(path: &std::path::Path, version: i32, text: &str) -> Vec<Value> {
     let texts = std::iter::once((path.to_path_buf(), text.to_string())).collect();
-    let snap = stoik::lsp::snapshot::build(path, version, texts).expect("analysis");
+    let snap = stoik::lsp::snapshot::build(path, version, texts, None).expect("analysis");
     let docs = stoik::lsp::convert::RuleDocs::default();
     stoik::lsp::server::document_diagnostics(&snap, Encoding::Utf16, &docs)
         .into_iter()

@@ -237,10 +237,12 @@ async fn analyse_one(state: &Arc<State>, client: &Client, path: PathBuf) {
     {
         return;
     }
+    // The last snapshot lends its syntax trees to the new analysis.
+    let earlier = lock(&state.snapshots).get(&path).cloned();
     let job_path = path.clone();
     let joined = tokio::task::spawn_blocking(move || {
         std::panic::catch_unwind(AssertUnwindSafe(|| {
-            snapshot::build(&job_path, version, texts)
+            snapshot::build(&job_path, version, texts, earlier.as_deref())
         }))
     })
     .await;

@@ -7,8 +7,9 @@
 use crate::analysis::{Analysis, LibraryResult, analyze};
 use crate::config::{Config, find_root};
 use crate::span::FileId;
+use crate::syntax::ast::SourceFile;
 use crate::syntax::line_index::Encoding;
-use crate::workspace::{Overlay, SourceText, Workspace};
+use crate::workspace::{FileSource, Overlay, SourceText, Workspace};
 use std::collections::HashMap;
 use std::path::{Path, PathBuf};
 
@@ -50,18 +51,21 @@ pub struct JobError(pub String);
 
 /// Analyse the open document at `path` with the unsaved texts of every open
 /// document laid over the disk. This is the whole work of one edit; the
-/// benchmarks call it directly.
+/// benchmarks call it directly. `earlier`, the document's last snapshot,
+/// lends its syntax trees: each file is parsed again only where its text
+/// changed.
 pub fn build(
     path: &Path,
     version: i32,
     texts: HashMap<PathBuf, String>,
+    earlier: Option<&Snapshot>,
 ) -> Result<Snapshot, JobError> {
     let root = find_root(path);
     let (config, config_error) = match Config::load(&root) {
         Ok(c) => (c, None),
         Err(e) => (Config::default(), Some(e.to_string())),
     };
-    build_with(path, version, texts, &root, config, config_error)
+    build_with(path, version, texts, &root, config, config_error, earlier)
 }
 
 /// [`build`] with the root and configuration already chosen.
@@ -72,12 +76,18 @@ pub fn build_with(
     root: &Path,
     config: Config,
     config_error: Option<String>,
+    earlier: Option<&Snapshot>,
 ) -> Result<Snapshot, JobError> {
-    let overlay = Overlay { texts };
+    let clock = crate::checks::Phases::start();
+    let source = Edited {
+        overlay: Overlay { texts },
+        earlier: earlier.map(Snapshot::workspace),
+    };
     let mut ws = Workspace::new(root);
     let file = ws
-        .load(path, &overlay)
+        .load(path, &source)
         .map_err(|e| JobError(format!("cannot read {}: {}", e.path.display(), e.error)))?;
+    clock.mark("reading and parsing");
     let analysis = analyze(ws, &config);
     Ok(Snapshot {
         path: path.to_path_buf(),
@@ -87,4 +97,23 @@ pub fn build_with(
         config,
         config_error,
     })
+}
+
+/// The texts of an edit, with the workspace of the last analysis to reuse
+/// the syntax trees of.
+struct Edited<'a> {
+    overlay: Overlay,
+    earlier: Option<&'a Workspace>,
+}
+
+impl FileSource for Edited<'_> {
+    fn read(&self, path: &Path) -> std::io::Result<Vec<u8>> {
+        self.overlay.read(path)
+    }
+
+    fn earlier(&self, path: &Path) -> Option<(&str, &SourceFile)> {
+        let ws = self.earlier?;
+        let file = ws.file(ws.id_of(path)?);
+        Some((file.text.as_str(), &file.syntax))
+    }
 }

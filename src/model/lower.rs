@@ -94,6 +94,7 @@ pub fn lower(ws: &Workspace, files: &[FileId], config: &Config) -> (Library, Vec
     // are numbered as they are first met; the rest of each reaction (its
     // balance and its data) depends on nothing but the statement and the
     // species, and is read on every core afterwards.
+    let clock = crate::checks::Phases::start();
     let mut pending = Vec::with_capacity(l.lib.reactions.capacity());
     for (index, (&file, reader)) in files.iter().zip(&readers).enumerate() {
         for s in &ws.file(file).syntax.statements {
@@ -112,7 +113,9 @@ pub fn lower(ws: &Workspace, files: &[FileId], config: &Config) -> (Library, Vec
             }
         }
     }
+    clock.mark("reaction heads");
     l.reaction_bodies(pending, &readers);
+    clock.mark("reaction bodies");
     l.lib.reactions.shrink_to_fit();
     l.lib.species.shrink_to_fit();
     (l.lib, l.diags)

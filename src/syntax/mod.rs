@@ -5,6 +5,8 @@ pub mod ast;
 pub mod lexer;
 pub mod line_index;
 pub mod parser;
+pub mod reparse;
 pub mod value;
 
 pub use parser::{parse, parse_equation};
+pub use reparse::reparse;

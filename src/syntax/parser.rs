@@ -96,7 +96,7 @@ fn header_cuts(text: &str, pieces: usize) -> Vec<usize> {
 }
 
 /// Line breaks as the lexer counts them: `\r\n`, `\n` and a lone `\r`.
-fn count_line_breaks(text: &str) -> usize {
+pub(super) fn count_line_breaks(text: &str) -> usize {
     let bytes = text.as_bytes();
     if memchr::memchr(b'\r', bytes).is_none() {
         return memchr::memchr_iter(b'\n', bytes).count();
@@ -114,7 +114,7 @@ fn count_line_breaks(text: &str) -> usize {
 
 /// Parse `text[start..end]`, a run of whole lines starting at line
 /// `first_line`, with spans into the whole text.
-fn parse_range(text: &str, start: usize, end: usize, first_line: usize) -> SourceFile {
+pub(super) fn parse_range(text: &str, start: usize, end: usize, first_line: usize) -> SourceFile {
     let mut parser = Parser {
         text,
         file: SourceFile::default(),
