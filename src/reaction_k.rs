@@ -327,25 +327,35 @@ impl ReactionK {
                 })
                 .collect();
         let stated_ds = r.ds.first().map(|d| d.value);
-        let species_dh = species_sum(lib, r, |s| s.data.dhf.map(|d| d.value), zero_by_convention);
-        let species_dg = species_sum(lib, r, |s| s.data.dgf.map(|d| d.value), zero_by_convention);
+        let species_dh = species_sum(
+            lib,
+            r,
+            |s| s.data().dhf.map(|d| d.value),
+            zero_by_convention,
+        );
+        let species_dg = species_sum(
+            lib,
+            r,
+            |s| s.data().dgf.map(|d| d.value),
+            zero_by_convention,
+        );
         // Entropies of elements are not zero, so every species needs S
         // (the electron and H+(aq) are zero by convention).
         let species_s = species_sum(
             lib,
             r,
-            |s| s.data.s.map(|d| d.value),
+            |s| s.data().s.map(|d| d.value),
             |s| s.formula.kind == SpeciesKind::Electron || is_proton(s),
         );
         let dcp = species_sum(
             lib,
             r,
-            |s| s.data.cp.map(|d| d.value),
+            |s| s.data().cp.map(|d| d.value),
             |s| s.formula.kind == SpeciesKind::Electron,
         )
         .filter(|_| {
             r.terms.iter().all(|t| {
-                lib.species(t.species).data.cp.is_some()
+                lib.species(t.species).data().cp.is_some()
                     || lib.species(t.species).formula.kind != SpeciesKind::Compound
             })
         });
@@ -590,7 +600,7 @@ impl ReactionK {
 /// reactions of reference elements alone do not count as "from species").
 fn has_species_data(lib: &Library, r: &Reaction) -> bool {
     r.terms.iter().any(|t| {
-        let d = &lib.species(t.species).data;
+        let d = lib.species(t.species).data();
         d.dgf.is_some() || d.dhf.is_some()
     })
 }

@@ -190,7 +190,7 @@ pub fn species_text(_lib: &Library, s: &Species) -> String {
     }
     out.push_str("\n\n");
     out.push_str(&formula_lines(&s.formula));
-    let d = &s.data;
+    let d = s.data();
     let mut data = Vec::new();
     if let Some(x) = d.dhf {
         data.push(format!("ΔfH° = {}", kj(x.value)));

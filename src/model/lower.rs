@@ -429,7 +429,7 @@ impl<'w> Lowering<'w> {
                 *slot = Some(d);
             }
         }
-        self.lib.species[id.0 as usize].data = data;
+        self.lib.species[id.0 as usize].data = (!data.is_empty()).then(|| Box::new(data));
     }
 
     fn reading_note(&mut self, file: FileId, name: &ast::Name, f: &crate::chem::formula::Formula) {
@@ -457,7 +457,7 @@ impl<'w> Lowering<'w> {
             formula,
             declared: None,
             first_use: loc,
-            data: SpeciesData::default(),
+            data: None,
         });
         id
     }

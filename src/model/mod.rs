@@ -56,6 +56,25 @@ pub struct SpeciesData {
     pub source: Option<String>,
 }
 
+impl SpeciesData {
+    /// No data at all, what most species of a large library have.
+    pub const NONE: SpeciesData = SpeciesData {
+        dhf: None,
+        dgf: None,
+        s: None,
+        cp: None,
+        source: None,
+    };
+
+    pub fn is_empty(&self) -> bool {
+        self.dhf.is_none()
+            && self.dgf.is_none()
+            && self.s.is_none()
+            && self.cp.is_none()
+            && self.source.is_none()
+    }
+}
+
 /// One species: a formula in a phase, or an alias for one.
 #[derive(Clone, Debug)]
 pub struct Species {
@@ -67,10 +86,18 @@ pub struct Species {
     pub declared: Option<Loc>,
     /// Where it was first met.
     pub first_use: Loc,
-    pub data: SpeciesData,
+    /// Its data, boxed and only when it has some: a library of 10^5
+    /// reactions names tens of thousands of species that carry none, and
+    /// the four empty slots made each species some 400 bytes.
+    pub data: Option<Box<SpeciesData>>,
 }
 
 impl Species {
+    /// Its thermodynamic data (all empty when none was given).
+    pub fn data(&self) -> &SpeciesData {
+        self.data.as_deref().unwrap_or(&SpeciesData::NONE)
+    }
+
     pub fn phase(&self) -> Option<Phase> {
         self.formula.phase
     }
