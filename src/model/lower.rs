@@ -80,7 +80,7 @@ pub fn lower(ws: &Workspace, files: &[FileId], config: &Config) -> (Library, Vec
         by_text: HashMap::default(),
         labels: HashMap::default(),
     };
-    l.reserve(files);
+    let count = l.reserve(files);
     // One unit reader per file, for both passes.
     let readers: Vec<UnitReader> = files.iter().map(|&file| l.reader(file)).collect();
     for (&file, reader) in files.iter().zip(&readers) {
@@ -91,49 +91,62 @@ pub fn lower(ws: &Workspace, files: &[FileId], config: &Config) -> (Library, Vec
         }
     }
     // Names, labels and mixtures are read in statement order, since species
-    // are numbered as they are first met; the rest of each reaction (its
-    // balance and its data) depends on nothing but the statement and the
-    // species, and is read on every core afterwards.
+    // are numbered as they are first met. The rest of each reaction (its
+    // places and its data) depends on nothing but the statement, and is
+    // read meanwhile on another core (large libraries); the terms join it
+    // afterwards, when the balance is checked on every core.
     let clock = crate::checks::Phases::start();
-    let mut pending = Vec::with_capacity(l.lib.reactions.capacity());
-    for (index, (&file, reader)) in files.iter().zip(&readers).enumerate() {
-        for s in &ws.file(file).syntax.statements {
-            match &s.kind {
-                StatementKind::Reaction {
-                    label,
-                    equation: Some(eq),
-                } => {
-                    let head = l.reaction_head(file, index, s, label.as_ref(), eq);
-                    pending.push(head);
+    let cores = std::thread::available_parallelism().map_or(1, std::num::NonZeroUsize::get);
+    let aside = cores > 1 && count >= PARALLEL_REACTIONS;
+    let (ws, config, readers) = (l.ws, l.config, &readers);
+    let (heads, (shells, shell_diags)) = std::thread::scope(|scope| {
+        let shells = aside.then(|| {
+            scope.spawn(move || Lowering::reaction_shells(ws, config, files, readers, count))
+        });
+        let mut heads = Vec::with_capacity(count);
+        for (&file, reader) in files.iter().zip(readers) {
+            for s in &ws.file(file).syntax.statements {
+                match &s.kind {
+                    StatementKind::Reaction {
+                        label,
+                        equation: Some(eq),
+                    } => heads.push(l.reaction_head(file, label.as_ref(), eq)),
+                    StatementKind::Mixture { name } => {
+                        l.mixture_statement(file, reader, s, name.as_ref())
+                    }
+                    _ => {}
                 }
-                StatementKind::Mixture { name } => {
-                    l.mixture_statement(file, reader, s, name.as_ref())
-                }
-                _ => {}
             }
         }
-    }
-    clock.mark("reaction heads");
-    l.reaction_bodies(pending, &readers);
+        clock.mark("reaction heads");
+        let shells = match shells {
+            Some(handle) => handle
+                .join()
+                .unwrap_or_else(|panic| std::panic::resume_unwind(panic)),
+            None => Lowering::reaction_shells(ws, config, files, readers, count),
+        };
+        (heads, shells)
+    });
+    l.diags.extend(shell_diags);
+    l.finish_reactions(shells, heads);
     clock.mark("reaction bodies");
     l.lib.reactions.shrink_to_fit();
     l.lib.species.shrink_to_fit();
     (l.lib, l.diags)
 }
 
-/// A reaction statement whose names and label have been read, waiting for
-/// the rest of its lowering.
+/// The species of a reaction statement as read in statement order,
+/// waiting to be joined to the rest of the reaction.
 struct ReactionHead<'a> {
     file: FileId,
-    /// The index of its file's unit reader.
-    reader: usize,
-    statement: &'a Statement,
-    label: Option<&'a ast::Name>,
     equation: &'a ast::Equation,
     terms: Vec<Term>,
     /// False when a species could not be read.
     complete: bool,
 }
+
+/// Libraries with fewer reactions than this are lowered on one thread.
+const PARALLEL_REACTIONS: usize = 4096;
 
 struct Lowering<'w> {
     ws: &'w Workspace,
@@ -176,70 +189,45 @@ impl<'w> Lowering<'w> {
         }
     }
 
-    /// Finish the reactions of `pending`, in order, in blocks: of each block
-    /// this thread builds the first half straight into the library while
-    /// another builds the second (large libraries only), whose reactions
-    /// and diagnostics are then appended, so that statement order is kept
-    /// and no more than half a block is held apart.
-    fn reaction_bodies(&mut self, pending: Vec<ReactionHead>, readers: &[UnitReader]) {
-        // With blocks of 16,384 (and species maps left unsized) an edit of
-        // 20,000 reactions in the server took a third longer (measured);
-        // blocks of 65,536 hold at most some 12 MB of reactions apart.
-        const BLOCK: usize = 65_536;
-        let cores = std::thread::available_parallelism().map_or(1, std::num::NonZeroUsize::get);
-        let parallel = cores > 1 && pending.len() >= 4096;
-        let mut rest = pending.into_iter();
-        loop {
-            let block: Vec<ReactionHead> = rest.by_ref().take(BLOCK).collect();
-            if block.is_empty() {
-                break;
-            }
-            self.reaction_block(block, readers, parallel);
-        }
-    }
-
-    fn reaction_block(
-        &mut self,
-        mut first: Vec<ReactionHead>,
-        readers: &[UnitReader],
-        parallel: bool,
-    ) {
+    /// Finish every reaction: give each shell the terms its head read and
+    /// check its balance. Large libraries finish in two halves side by
+    /// side, each half's diagnostics appended in order.
+    fn finish_reactions(&mut self, mut shells: Vec<Reaction>, mut heads: Vec<ReactionHead>) {
         let (ws, config) = (self.ws, self.config);
-        let second = if parallel {
-            first.split_off(first.len() / 2)
+        let cores = std::thread::available_parallelism().map_or(1, std::num::NonZeroUsize::get);
+        let split = if cores > 1 && heads.len() >= PARALLEL_REACTIONS {
+            heads.len() / 2
         } else {
-            Vec::new()
+            heads.len()
         };
+        let second_heads = heads.split_off(split);
         let species = &self.lib.species;
-        let reactions = &mut self.lib.reactions;
         let diags = &mut self.diags;
+        let (first, second) = shells.split_at_mut(split);
         std::thread::scope(|scope| {
-            let other = (!second.is_empty()).then(|| {
+            let other = (!second_heads.is_empty()).then(|| {
                 scope.spawn(move || {
                     let mut worker = Lowering::worker(ws, config);
-                    let built: Vec<Reaction> = second
-                        .into_iter()
-                        .map(|head| worker.reaction_body(head, readers, species))
-                        .collect();
-                    (built, worker.diags)
+                    for (r, head) in second.iter_mut().zip(second_heads) {
+                        worker.finish_reaction(r, head, species);
+                    }
+                    worker.diags
                 })
             });
             let mut worker = Lowering::worker(ws, config);
-            for head in first {
-                reactions.push(worker.reaction_body(head, readers, species));
+            for (r, head) in first.iter_mut().zip(heads) {
+                worker.finish_reaction(r, head, species);
             }
             diags.extend(worker.diags);
             if let Some(handle) = other {
                 match handle.join() {
-                    Ok((built, more)) => {
-                        reactions.extend(built);
-                        diags.extend(more);
-                    }
+                    Ok(more) => diags.extend(more),
                     // Re-raise on this thread, where the callers catch panics.
                     Err(panic) => std::panic::resume_unwind(panic),
                 }
             }
         });
+        self.lib.reactions = shells;
     }
 
     fn reader(&mut self, file: FileId) -> UnitReader {
@@ -249,12 +237,12 @@ impl<'w> Lowering<'w> {
     }
 
     /// Size the model and the name maps for the statements of `files` up
-    /// front: on large libraries, growing them step by step copied and
-    /// rehashed them over and over. How many distinct species the equations
+    /// front, and count the reactions: on large libraries, growing them
+    /// step by step copied and rehashed them over and over. How many distinct species the equations
     /// name is not known until they are read: the species are sized for a
     /// third of the terms but at most 2^16, since a larger guess wasted
     /// hundreds of MB on 10^6 reactions that name far fewer species.
-    fn reserve(&mut self, files: &[FileId]) {
+    fn reserve(&mut self, files: &[FileId]) -> usize {
         let (mut species, mut reactions, mut labels, mut terms) = (0, 0, 0, 0);
         for &file in files {
             for s in &self.ws.file(file).syntax.statements {
@@ -273,11 +261,11 @@ impl<'w> Lowering<'w> {
             }
         }
         let texts = (species + terms / 3).min(1 << 16);
-        self.lib.reactions.reserve_exact(reactions);
         self.lib.species.reserve(texts);
         self.by_text.reserve(texts);
         self.by_key.reserve(texts);
         self.labels.reserve(labels);
+        reactions
     }
 
     fn push(&mut self, d: Diagnostic) {
@@ -666,8 +654,6 @@ impl<'w> Lowering<'w> {
     fn reaction_head<'s>(
         &mut self,
         file: FileId,
-        reader: usize,
-        s: &'s Statement,
         label: Option<&'s ast::Name>,
         eq: &'s ast::Equation,
     ) -> ReactionHead<'s> {
@@ -704,34 +690,24 @@ impl<'w> Lowering<'w> {
         }
         ReactionHead {
             file,
-            reader,
-            statement: s,
-            label,
             equation: eq,
             terms,
             complete,
         }
     }
 
-    /// The rest of a reaction statement: the reaction with its balance
-    /// checked and its data read. `species` are the library's species,
-    /// `readers` the unit readers of its files.
-    fn reaction_body(
+    /// A reaction statement read without its species: its places, its
+    /// arrow and its data, which depend on nothing else, so that they are
+    /// read on another core while this one reads the names
+    /// ([`Lowering::finish_reaction`] adds the rest).
+    fn reaction_shell(
         &mut self,
-        head: ReactionHead,
-        readers: &[UnitReader],
-        species: &[Species],
+        file: FileId,
+        reader: &UnitReader,
+        s: &Statement,
+        label: Option<&ast::Name>,
+        eq: &ast::Equation,
     ) -> Reaction {
-        let ReactionHead {
-            file,
-            reader,
-            statement: s,
-            label,
-            equation: eq,
-            terms,
-            complete,
-        } = head;
-        let reader = &readers[reader];
         let label_loc = label.map(|l| Loc::new(file, l.span));
         let header_end = eq.span.end;
         // Each list is sized for the attributes that fill it, so that
@@ -751,9 +727,9 @@ impl<'w> Lowering<'w> {
             equation_loc: Loc::new(file, eq.span),
             arrow: eq.arrow.kind,
             arrow_loc: Loc::new(file, eq.arrow.span),
-            net: Reaction::net_of(&terms),
-            terms,
-            complete,
+            net: Vec::new(),
+            terms: Vec::new(),
+            complete: false,
             balanced: false,
             k: Vec::with_capacity(count(&["K", "logK", "pK", "Kc", "Kp"])),
             dg: Vec::with_capacity(count(&["dG"])),
@@ -782,18 +758,57 @@ impl<'w> Lowering<'w> {
                 }),
             );
         }
-        if complete {
-            reaction.balanced = self.check_balance_with(file, eq, &reaction, species);
-        }
         self.reaction_attributes(file, reader, s, &mut reaction);
         // Room left by attributes that did not read is given back.
-        reaction.terms.shrink_to_fit();
         reaction.k.shrink_to_fit();
         reaction.dg.shrink_to_fit();
         reaction.dh.shrink_to_fit();
         reaction.ds.shrink_to_fit();
         reaction.rates.shrink_to_fit();
         reaction
+    }
+
+    /// The shells of every reaction statement of `files`, in order, with
+    /// the diagnostics of their data.
+    fn reaction_shells(
+        ws: &'w Workspace,
+        config: &'w Config,
+        files: &[FileId],
+        readers: &[UnitReader],
+        count: usize,
+    ) -> (Vec<Reaction>, Vec<Diagnostic>) {
+        let mut worker = Lowering::worker(ws, config);
+        let mut shells = Vec::with_capacity(count);
+        for (&file, reader) in files.iter().zip(readers) {
+            for s in &ws.file(file).syntax.statements {
+                if let StatementKind::Reaction {
+                    label,
+                    equation: Some(eq),
+                } = &s.kind
+                {
+                    shells.push(worker.reaction_shell(file, reader, s, label.as_ref(), eq));
+                }
+            }
+        }
+        (shells, worker.diags)
+    }
+
+    /// Give a reaction the terms its head read and check its balance.
+    /// `species` are the library's species.
+    fn finish_reaction(&mut self, r: &mut Reaction, head: ReactionHead, species: &[Species]) {
+        let ReactionHead {
+            file,
+            equation: eq,
+            mut terms,
+            complete,
+        } = head;
+        terms.shrink_to_fit();
+        r.net = Reaction::net_of(&terms);
+        r.terms = terms;
+        r.complete = complete;
+        if complete {
+            r.balanced = self.check_balance_with(file, eq, r, species);
+        }
     }
 
     fn reaction_attributes(
