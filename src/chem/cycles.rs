@@ -509,6 +509,34 @@ pub fn canonical_form(vector: &[(u32, Ratio<i64>)]) -> CanonicalKey {
 /// the key's first entry (`scale = first / lead`); `None` when a value does
 /// not fit.
 fn canonical_small(vector: &[(u32, Ratio<i64>)]) -> Option<(CanonicalKey, Ratio<i64>, i64)> {
+    integer_net(vector).or_else(|| canonical_general(vector))
+}
+
+/// [`canonical_small`] of what a reaction's net vector nearly always is:
+/// species in increasing order, each once, with a nonzero integer
+/// coefficient. Its key is the vector divided by the gcd of the
+/// coefficients, signed so that the first is positive, with no sorting,
+/// merging or reducing of fractions. `None` for any other vector.
+fn integer_net(vector: &[(u32, Ratio<i64>)]) -> Option<(CanonicalKey, Ratio<i64>, i64)> {
+    let (_, first) = *vector.first()?;
+    let mut g: i64 = 0;
+    let mut last: Option<u32> = None;
+    for (s, c) in vector {
+        let n = *c.numer();
+        if *c.denom() != 1 || n == 0 || n == i64::MIN || last.is_some_and(|l| l >= *s) {
+            return None;
+        }
+        last = Some(*s);
+        g = num_integer::gcd(g, n);
+    }
+    let unit = if first.numer() < &0 { -g } else { g };
+    let ints: Vec<(u32, i64)> = vector.iter().map(|(s, c)| (*s, c.numer() / unit)).collect();
+    let lead = ints[0].1;
+    Some((CanonicalKey::Small(ints), first, lead))
+}
+
+/// [`canonical_small`] of any vector.
+fn canonical_general(vector: &[(u32, Ratio<i64>)]) -> Option<(CanonicalKey, Ratio<i64>, i64)> {
     let mut v: Vec<(u32, Ratio<i64>)> = Vec::with_capacity(vector.len());
     for (s, c) in vector {
         if *c.denom() == 0 {
@@ -844,5 +872,38 @@ mod tests {
         let (kh2, sh2) = canonical_key(&[(1, q(-(1 << 62))), (2, Ratio::new(-1, 1 << 62))]);
         assert_eq!(kh, kh2);
         assert_eq!(sh2, -canonical_key(&huge).1);
+    }
+
+    proptest::proptest! {
+        /// The integer fast path gives the key, first coefficient and lead
+        /// of the general reading, and declines every vector it cannot read.
+        #[test]
+        fn integer_nets_read_as_the_general_path_reads_them(
+            v in proptest::collection::vec((0u32..8, -6i64..7, 1i64..4), 0..7)
+        ) {
+            let vector: Vec<(u32, Ratio<i64>)> = v
+                .iter()
+                .map(|&(s, n, d)| (s, Ratio::new(n, d)))
+                .collect();
+            let general = canonical_general(&vector);
+            proptest::prop_assert_eq!(canonical_small(&vector), general.clone());
+            if let Some(fast) = integer_net(&vector) {
+                proptest::prop_assert_eq!(Some(fast), general);
+            }
+        }
+
+        /// Net vectors as reactions have them (sorted species, integers).
+        #[test]
+        fn sorted_integer_nets_take_the_fast_path(
+            v in proptest::collection::btree_map(0u32..40, -9i64..10, 1..7)
+        ) {
+            let vector: Vec<(u32, Ratio<i64>)> =
+                v.iter().map(|(&s, &n)| (s, Ratio::from_integer(n))).collect();
+            let fast = integer_net(&vector);
+            proptest::prop_assert_eq!(fast.is_some(), v.values().all(|&n| n != 0));
+            if fast.is_some() {
+                proptest::prop_assert_eq!(fast, canonical_general(&vector));
+            }
+        }
     }
 }
