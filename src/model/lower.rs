@@ -103,6 +103,8 @@ pub fn lower(ws: &Workspace, files: &[FileId], config: &Config) -> (Library, Vec
         let shells = aside.then(|| {
             scope.spawn(move || Lowering::reaction_shells(ws, config, files, readers, count))
         });
+        l.settle_names_ahead(files, aside);
+        clock.mark("species names");
         let mut heads = Vec::with_capacity(count);
         for (&file, reader) in files.iter().zip(readers) {
             for s in &ws.file(file).syntax.statements {
@@ -171,6 +173,82 @@ type FormulaKey = (
 
 fn formula_key(f: &crate::chem::formula::Formula) -> FormulaKey {
     (f.composition.clone(), f.charge, f.phase, f.kind)
+}
+
+/// What a species text reads as, before it is numbered.
+enum Reading {
+    Alias(SpeciesId),
+    Formula(crate::chem::formula::Formula),
+    /// Neither an alias nor a formula: reported at every occurrence.
+    Unresolved,
+}
+
+/// A species text as first met in a run of statements, read ahead.
+struct NameReading<'a> {
+    file: FileId,
+    name: &'a ast::Name,
+    reading: Reading,
+}
+
+/// What `text` names, given the declared aliases.
+fn read_name(aliases: &HashMap<CompactString, SpeciesId>, text: &str) -> Reading {
+    if let Some(id) = aliases.get(text) {
+        return Reading::Alias(*id);
+    }
+    if !looks_like_formula(text) {
+        return Reading::Unresolved;
+    }
+    match parse_formula(text) {
+        Ok(f) => Reading::Formula(f),
+        Err(_) => Reading::Unresolved,
+    }
+}
+
+/// True when a line of a mixture names a species, exactly as
+/// [`Lowering::mixture_statement`] decides it: not one of its attributes,
+/// and a formula or a declared alias.
+fn mixture_names_species(aliases: &HashMap<CompactString, SpeciesId>, text: &str) -> bool {
+    !matches!(text, "temperature" | "pressure" | "volume" | "activity")
+        && (looks_like_formula(text) || aliases.contains_key(text))
+}
+
+/// The distinct species texts of `statements` (equations and named
+/// mixtures) in the order they are first met, each read.
+fn read_names<'a>(
+    aliases: &HashMap<CompactString, SpeciesId>,
+    statements: &[(FileId, &'a Statement)],
+) -> Vec<NameReading<'a>> {
+    let mut seen: rustc_hash::FxHashSet<&str> = rustc_hash::FxHashSet::default();
+    let mut out = Vec::new();
+    let mut meet = |file: FileId, name: &'a ast::Name| {
+        if seen.insert(name.text.as_str()) {
+            out.push(NameReading {
+                file,
+                name,
+                reading: read_name(aliases, &name.text),
+            });
+        }
+    };
+    for &(file, s) in statements {
+        match &s.kind {
+            StatementKind::Reaction {
+                equation: Some(eq), ..
+            } => {
+                for t in eq.left.iter().chain(&eq.right) {
+                    meet(file, &t.species);
+                }
+            }
+            StatementKind::Mixture { name: Some(_) } => {
+                for a in &s.attributes {
+                    if mixture_names_species(aliases, &a.name.text) {
+                        meet(file, &a.name);
+                    }
+                }
+            }
+            _ => {}
+        }
+    }
+    out
 }
 
 impl<'w> Lowering<'w> {
@@ -452,45 +530,89 @@ impl<'w> Lowering<'w> {
 
     /// Resolve a species as written in an equation or a mixture.
     fn resolve(&mut self, file: FileId, name: &ast::Name) -> Option<SpeciesId> {
-        if let Some(r) = self.by_text.get(&name.text).copied() {
-            if r.is_none() {
-                // Report every failing occurrence, not only the first.
-                self.report_unresolved(file, name);
+        let resolved = match self.by_text.get(&name.text).copied() {
+            Some(r) => r,
+            None => {
+                let reading = read_name(&self.aliases, &name.text);
+                self.settle(file, name, reading)
             }
-            return r;
+        };
+        if resolved.is_none() {
+            // Every failing occurrence is reported, not only the first.
+            self.report_unresolved(file, name);
         }
-        let resolved = self.resolve_new(file, name);
+        resolved
+    }
+
+    /// Number a species text met for the first time, from its reading: an
+    /// alias, a formula (a new species unless another spelling of it was
+    /// met), or nothing. Failures are reported by [`Lowering::resolve`].
+    fn settle(&mut self, file: FileId, name: &ast::Name, reading: Reading) -> Option<SpeciesId> {
+        let resolved = match reading {
+            Reading::Alias(id) => Some(id),
+            Reading::Unresolved => None,
+            Reading::Formula(f) => {
+                self.reading_note(file, name, &f);
+                let key = formula_key(&f);
+                match self.by_key.get(&key) {
+                    Some(id) => Some(*id),
+                    None => {
+                        let id = self.new_species(
+                            name.text.as_str().to_owned(),
+                            None,
+                            f,
+                            Loc::new(file, name.span),
+                        );
+                        self.by_key.insert(key, id);
+                        Some(id)
+                    }
+                }
+            }
+        };
         self.by_text.insert(name.text.clone(), resolved);
         resolved
     }
 
-    fn resolve_new(&mut self, file: FileId, name: &ast::Name) -> Option<SpeciesId> {
-        if let Some(id) = self.aliases.get(&name.text) {
-            return Some(*id);
-        }
-        if !looks_like_formula(&name.text) {
-            self.report_unresolved(file, name);
-            return None;
-        }
-        match parse_formula(&name.text) {
-            Ok(f) => {
-                self.reading_note(file, name, &f);
-                let key = formula_key(&f);
-                if let Some(id) = self.by_key.get(&key) {
-                    return Some(*id);
+    /// Read every species text of the equations and mixtures of `files`
+    /// ahead and number them in the order they are first met, so that the
+    /// pass in statement order finds each one already settled. Reading
+    /// (the formula parser) is the costly part and depends on nothing but
+    /// the text and the aliases, so large libraries read it in two halves
+    /// side by side; only the numbering is serial.
+    fn settle_names_ahead(&mut self, files: &[FileId], parallel: bool) {
+        let ws = self.ws;
+        let statements: Vec<(FileId, &Statement)> = files
+            .iter()
+            .flat_map(|&f| ws.file(f).syntax.statements.iter().map(move |s| (f, s)))
+            .filter(|(_, s)| {
+                matches!(
+                    s.kind,
+                    StatementKind::Reaction {
+                        equation: Some(_),
+                        ..
+                    } | StatementKind::Mixture { name: Some(_) }
+                )
+            })
+            .collect();
+        let aliases = &self.aliases;
+        let parts: Vec<Vec<NameReading>> = if parallel {
+            let (first, second) = statements.split_at(statements.len() / 2);
+            std::thread::scope(|scope| {
+                let other = scope.spawn(|| read_names(aliases, second));
+                let mine = read_names(aliases, first);
+                let other = other
+                    .join()
+                    .unwrap_or_else(|panic| std::panic::resume_unwind(panic));
+                vec![mine, other]
+            })
+        } else {
+            vec![read_names(aliases, &statements)]
+        };
+        for part in parts {
+            for r in part {
+                if !self.by_text.contains_key(&r.name.text) {
+                    self.settle(r.file, r.name, r.reading);
                 }
-                let id = self.new_species(
-                    name.text.as_str().to_owned(),
-                    None,
-                    f,
-                    Loc::new(file, name.span),
-                );
-                self.by_key.insert(key, id);
-                Some(id)
-            }
-            Err(_) => {
-                self.formula_error(file, name.span, &name.text);
-                None
             }
         }
     }
@@ -1226,7 +1348,7 @@ impl<'w> Lowering<'w> {
                         ),
                     ),
                 },
-                text if looks_like_formula(text) || self.aliases.contains_key(text) => {
+                text if mixture_names_species(&self.aliases, text) => {
                     let Some(species) = self.resolve(file, &a.name) else {
                         continue;
                     };
