@@ -175,10 +175,16 @@ fn formula_key(f: &crate::chem::formula::Formula) -> FormulaKey {
     (f.composition.clone(), f.charge, f.phase, f.kind)
 }
 
-/// What a species text reads as, before it is numbered.
+/// What a species text reads as, before it is numbered. A formula comes
+/// with its key and its name, made where it is read (on any core), so that
+/// numbering only moves them.
 enum Reading {
     Alias(SpeciesId),
-    Formula(crate::chem::formula::Formula),
+    Formula {
+        formula: crate::chem::formula::Formula,
+        key: FormulaKey,
+        name: String,
+    },
     /// Neither an alias nor a formula: reported at every occurrence.
     Unresolved,
 }
@@ -199,7 +205,11 @@ fn read_name(aliases: &HashMap<CompactString, SpeciesId>, text: &str) -> Reading
         return Reading::Unresolved;
     }
     match parse_formula(text) {
-        Ok(f) => Reading::Formula(f),
+        Ok(formula) => Reading::Formula {
+            key: formula_key(&formula),
+            formula,
+            name: text.to_owned(),
+        },
         Err(_) => Reading::Unresolved,
     }
 }
@@ -314,34 +324,30 @@ impl<'w> Lowering<'w> {
         reader
     }
 
-    /// Size the model and the name maps for the statements of `files` up
-    /// front, and count the reactions: on large libraries, growing them
-    /// step by step copied and rehashed them over and over. How many distinct species the equations
-    /// name is not known until they are read: the species are sized for a
-    /// third of the terms but at most 2^16, since a larger guess wasted
-    /// hundreds of MB on 10^6 reactions that name far fewer species.
+    /// Size the declared species and the labels for the statements of
+    /// `files` up front, and count the reactions: on large libraries,
+    /// growing them step by step copied and rehashed them over and over.
+    /// The species the equations name are sized once they are read
+    /// ([`Lowering::settle_names_ahead`]).
     fn reserve(&mut self, files: &[FileId]) -> usize {
-        let (mut species, mut reactions, mut labels, mut terms) = (0, 0, 0, 0);
+        let (mut species, mut reactions, mut labels) = (0, 0, 0);
         for &file in files {
             for s in &self.ws.file(file).syntax.statements {
                 match &s.kind {
                     StatementKind::Species { .. } => species += 1,
                     StatementKind::Reaction {
-                        equation: Some(eq),
+                        equation: Some(_),
                         label,
                     } => {
                         reactions += 1;
                         labels += usize::from(label.is_some());
-                        terms += eq.left.len() + eq.right.len();
                     }
                     _ => {}
                 }
             }
         }
-        let texts = (species + terms / 3).min(1 << 16);
-        self.lib.species.reserve(texts);
-        self.by_text.reserve(texts);
-        self.by_key.reserve(texts);
+        self.lib.species.reserve(species);
+        self.by_key.reserve(species);
         self.labels.reserve(labels);
         reactions
     }
@@ -551,19 +557,20 @@ impl<'w> Lowering<'w> {
         let resolved = match reading {
             Reading::Alias(id) => Some(id),
             Reading::Unresolved => None,
-            Reading::Formula(f) => {
-                self.reading_note(file, name, &f);
-                let key = formula_key(&f);
-                match self.by_key.get(&key) {
-                    Some(id) => Some(*id),
-                    None => {
-                        let id = self.new_species(
-                            name.text.as_str().to_owned(),
-                            None,
-                            f,
-                            Loc::new(file, name.span),
-                        );
-                        self.by_key.insert(key, id);
+            Reading::Formula {
+                formula,
+                key,
+                name: text,
+            } => {
+                self.reading_note(file, name, &formula);
+                // The species a new formula becomes is the next one.
+                let next = SpeciesId(self.lib.species.len() as u32);
+                match self.by_key.entry(key) {
+                    std::collections::hash_map::Entry::Occupied(e) => Some(*e.get()),
+                    std::collections::hash_map::Entry::Vacant(e) => {
+                        e.insert(next);
+                        let id = self.new_species(text, None, formula, Loc::new(file, name.span));
+                        debug_assert_eq!(id, next);
                         Some(id)
                     }
                 }
@@ -608,9 +615,17 @@ impl<'w> Lowering<'w> {
         } else {
             vec![read_names(aliases, &statements)]
         };
-        for part in parts {
+        // Sized once for every text read (a text met in both halves is
+        // counted twice), so that numbering them never rehashes.
+        let texts: usize = parts.iter().map(Vec::len).sum();
+        self.lib.species.reserve(texts);
+        self.by_text.reserve(texts);
+        self.by_key.reserve(texts);
+        for (i, part) in parts.into_iter().enumerate() {
+            // The first part's texts are distinct and none was met before.
+            let fresh = i == 0 && self.by_text.is_empty();
             for r in part {
-                if !self.by_text.contains_key(&r.name.text) {
+                if fresh || !self.by_text.contains_key(&r.name.text) {
                     self.settle(r.file, r.name, r.reading);
                 }
             }
