@@ -15,7 +15,7 @@ use std::sync::Arc;
 use stoik::config::Config;
 use stoik::lsp::convert::RuleDocs;
 use stoik::lsp::documents::{Change, apply};
-use stoik::lsp::snapshot::build_with;
+use stoik::lsp::snapshot::{Snapshot, build_with};
 use stoik::syntax::line_index::{Encoding, Position};
 use tower_lsp_server::ls_types as lsp;
 
@@ -24,34 +24,27 @@ use tower_lsp_server::ls_types as lsp;
 #[global_allocator]
 static ALLOCATOR: mimalloc::MiMalloc = mimalloc::MiMalloc;
 
-/// An invented library of distinct reactions: dehydrogenations with K and
-/// dH, chlorinations with Arrhenius rate constants, and a mixture.
-fn library(reactions: usize) -> String {
-    let mut s = String::from("units energy = kJ/mol, temperature = K\n\n");
-    for i in 0..reactions {
-        let n = i / 2 + 1;
-        if i % 2 == 0 {
-            s.push_str(&format!(
-                "reaction d{n}: C{n}H{}(g) <=> C{n}H{}(g) + H2(g)\n  K = 1.0e-3 at 700 K\n  dH = 120.5 kJ/mol\n",
-                2 * n + 2,
-                2 * n
-            ));
-        } else {
-            s.push_str(&format!(
-                "reaction c{n}: C{n}H{}(g) + Cl2(g) -> C{n}H{}Cl(g) + HCl(g)\n  k = arrhenius(A = 1.0e9 L/(mol*s), n = 0, Ea = 10 kJ/mol)\n",
-                2 * n + 2,
-                2 * n + 1
-            ));
-        }
-    }
-    s.push_str("\nmixture feed\n  temperature = 800 K\n  C1H4(g) = 1 mol/L\n  C1H2(g) = 0 mol/L\n  H2(g) = 0 mol/L\n");
-    s
+/// The work of one edit: analyse the document with the texts of the edit
+/// and the last snapshot to reuse, and convert its diagnostics.
+fn analyse_edit(
+    path: &Path,
+    version: i32,
+    texts: HashMap<PathBuf, String>,
+    root: &Path,
+    last: Option<&Snapshot>,
+    docs: &RuleDocs,
+) -> Arc<Snapshot> {
+    let snap = build_with(path, version, texts, root, Config::default(), None, last)
+        .expect("the overlay serves the files");
+    let diags = stoik::lsp::server::document_diagnostics(&snap, Encoding::Utf16, docs);
+    black_box(diags.len());
+    Arc::new(snap)
 }
 
 fn bench(c: &mut Criterion) {
     let path = PathBuf::from("/stoik-bench/big.stoik");
     let root = Path::new("/stoik-bench");
-    let text = library(20_000);
+    let text = stoik::synthetic::edit_benchmark_library(20_000);
     let lines = text.lines().count() as u32;
     let docs = RuleDocs::default();
     let mut group = c.benchmark_group("lsp");
@@ -60,7 +53,7 @@ fn bench(c: &mut Criterion) {
     // One keystroke in the middle of the file (a `#` typed, then deleted),
     // then the whole analysis.
     let mut version = 1;
-    let mut last: Option<Arc<stoik::lsp::snapshot::Snapshot>> = None;
+    let mut last: Option<Arc<Snapshot>> = None;
     let mut doc = text.clone();
     group.bench_function("edit_to_diagnostics_20000_reactions", |b| {
         b.iter_with_large_drop(|| {
@@ -87,21 +80,10 @@ fn bench(c: &mut Criterion) {
             apply(&mut doc, &change, Encoding::Utf16);
             let mut texts = HashMap::new();
             texts.insert(path.clone(), doc.clone());
-            let snap = build_with(
-                &path,
-                version,
-                texts,
-                root,
-                Config::default(),
-                None,
-                last.as_deref(),
-            )
-            .expect("the overlay serves the file");
-            let diags = stoik::lsp::server::document_diagnostics(&snap, Encoding::Utf16, &docs);
-            black_box(diags.len());
             // The server keeps the new snapshot, whose trees the next edit
             // reuses, and frees the replaced one on another thread.
-            last.replace(Arc::new(snap))
+            let snap = analyse_edit(&path, version, texts, root, last.as_deref(), &docs);
+            last.replace(snap)
         })
     });
 
@@ -140,7 +122,7 @@ fn bench(c: &mut Criterion) {
     let top = files[0].0.clone();
     let mut top_text = files[0].1.clone();
     let mut version = 1;
-    let mut last: Option<Arc<stoik::lsp::snapshot::Snapshot>> = None;
+    let mut last: Option<Arc<Snapshot>> = None;
     group.bench_function("edit_to_diagnostics_synthetic_20000_reactions", |b| {
         b.iter_with_large_drop(|| {
             version += 1;
@@ -156,19 +138,8 @@ fn bench(c: &mut Criterion) {
             }
             let mut texts: HashMap<PathBuf, String> = files.iter().cloned().collect();
             texts.insert(top.clone(), top_text.clone());
-            let snap = build_with(
-                &top,
-                version,
-                texts,
-                root,
-                Config::default(),
-                None,
-                last.as_deref(),
-            )
-            .expect("the overlay serves the files");
-            let diags = stoik::lsp::server::document_diagnostics(&snap, Encoding::Utf16, &docs);
-            black_box(diags.len());
-            last.replace(Arc::new(snap))
+            let snap = analyse_edit(&top, version, texts, root, last.as_deref(), &docs);
+            last.replace(snap)
         })
     });
     group.finish();

@@ -172,3 +172,28 @@ pub fn generate(recipe: &Recipe) -> Generated {
     }
     Generated { files, planted }
 }
+
+/// The one-file library of the language server's edit benchmark: invented,
+/// distinct reactions (dehydrogenations with K and dH, chlorinations with
+/// Arrhenius rate constants) and a mixture.
+pub fn edit_benchmark_library(reactions: usize) -> String {
+    let mut s = String::from("units energy = kJ/mol, temperature = K\n\n");
+    for i in 0..reactions {
+        let n = i / 2 + 1;
+        if i % 2 == 0 {
+            s.push_str(&format!(
+                "reaction d{n}: C{n}H{}(g) <=> C{n}H{}(g) + H2(g)\n  K = 1.0e-3 at 700 K\n  dH = 120.5 kJ/mol\n",
+                2 * n + 2,
+                2 * n
+            ));
+        } else {
+            s.push_str(&format!(
+                "reaction c{n}: C{n}H{}(g) + Cl2(g) -> C{n}H{}Cl(g) + HCl(g)\n  k = arrhenius(A = 1.0e9 L/(mol*s), n = 0, Ea = 10 kJ/mol)\n",
+                2 * n + 2,
+                2 * n + 1
+            ));
+        }
+    }
+    s.push_str("\nmixture feed\n  temperature = 800 K\n  C1H4(g) = 1 mol/L\n  C1H2(g) = 0 mol/L\n  H2(g) = 0 mol/L\n");
+    s
+}

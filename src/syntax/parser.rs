@@ -61,6 +61,11 @@ fn parse_in_pieces(text: &str, piece_min: usize, workers: usize) -> SourceFile {
             })
             .collect()
     });
+    join(pieces)
+}
+
+/// The trees of consecutive pieces of one text as one tree.
+pub(super) fn join(pieces: Vec<SourceFile>) -> SourceFile {
     let mut file = SourceFile::default();
     file.statements
         .reserve_exact(pieces.iter().map(|p| p.statements.len()).sum());
@@ -950,11 +955,12 @@ pub fn truncate(s: &str, max: usize) -> String {
 }
 
 #[cfg(test)]
-mod tests {
+pub(super) mod tests {
     use super::*;
     use proptest::prelude::*;
 
-    fn line() -> impl Strategy<Value = String> {
+    /// Lines of the notation, good and broken.
+    pub(in crate::syntax) fn line() -> impl Strategy<Value = String> {
         prop_oneof![
             Just("reaction r1: H2(g) + Cl2(g) <=> 2 HCl(g)".to_string()),
             Just("reaction: A <=> B ; K = 3".to_string()),
@@ -976,8 +982,16 @@ mod tests {
     }
 
     fn file() -> impl Strategy<Value = String> {
+        file_of(line())
+    }
+
+    /// Files of up to 60 lines drawn from `line`, with every kind of line
+    /// end.
+    pub(in crate::syntax) fn file_of(
+        line: impl Strategy<Value = String>,
+    ) -> impl Strategy<Value = String> {
         proptest::collection::vec(
-            (line(), prop_oneof![Just("\n"), Just("\r\n"), Just("\r")]),
+            (line, prop_oneof![Just("\n"), Just("\r\n"), Just("\r")]),
             0..60,
         )
         .prop_map(|lines| lines.into_iter().map(|(l, e)| l + e).collect())

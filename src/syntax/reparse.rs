@@ -13,7 +13,7 @@
 //! file into pieces for several cores).
 
 use super::ast::*;
-use super::parser::{count_line_breaks, parse, parse_range};
+use super::parser::{count_line_breaks, join, parse, parse_range};
 use crate::span::Span;
 
 /// Below this many statements to copy, one thread copies them all.
@@ -81,7 +81,7 @@ pub fn reparse(old_text: &str, old: &SourceFile, text: &str) -> SourceFile {
     } else {
         (parse_between(), copy_after())
     };
-    join([head, middle, tail])
+    join(vec![head, middle, tail])
 }
 
 /// The length of the longest common start of `a` and `b`.
@@ -204,21 +204,6 @@ fn errors(file: &SourceFile, starts: std::ops::Range<usize>, moved: Move) -> Vec
             ..e.clone()
         })
         .collect()
-}
-
-/// The trees of consecutive parts of one text as one tree.
-fn join(parts: [SourceFile; 3]) -> SourceFile {
-    let mut out = SourceFile::default();
-    out.statements
-        .reserve_exact(parts.iter().map(|p| p.statements.len()).sum());
-    out.comments
-        .reserve_exact(parts.iter().map(|p| p.comments.len()).sum());
-    for part in parts {
-        out.statements.extend(part.statements);
-        out.comments.extend(part.comments);
-        out.errors.extend(part.errors);
-    }
-    out
 }
 
 /// How far the text after a change moved: in bytes and in lines.
@@ -350,36 +335,19 @@ mod tests {
     use super::*;
     use proptest::prelude::*;
 
-    /// Lines of the notation, good and broken, for the texts and the edits.
+    /// Lines of the notation, good and broken, for the texts and the edits:
+    /// the parser's, and some more.
     fn line() -> impl Strategy<Value = String> {
         prop_oneof![
-            Just("reaction r1: H2(g) + Cl2(g) <=> 2 HCl(g)".to_string()),
-            Just("reaction: A <=> B ; K = 3".to_string()),
-            Just("  K = 1.0e-3 at 700 K".to_string()),
-            Just("  k = arrhenius(A = 1e9 L/(mol*s), n = 0, Ea = 10 kJ/mol)".to_string()),
-            Just("  dH = 12 kJ/mol # trailing".to_string()),
-            Just("species water = H2O(l)".to_string()),
-            Just("use \"other.stoik\"".to_string()),
-            Just("# a comment on its own line".to_string()),
-            Just("   # an indented comment".to_string()),
-            Just("  ".to_string()),
-            Just(String::new()),
-            Just("reaction broken <=>".to_string()),
-            Just("  orphan = 1".to_string()),
-            Just("mixture feed".to_string()),
-            Just("  H2(g) = 1 mol/L".to_string()),
-            Just("  \"open string".to_string()),
-            Just("reaction µ: Fe³⁺ + e⁻ ⇌ Fe²⁺".to_string()),
-            "[a-z =<>#:;,\"0-9()+-]{0,30}",
+            12 => super::super::parser::tests::line(),
+            1 => Just("  k = arrhenius(A = 1e9 L/(mol*s), n = 0, Ea = 10 kJ/mol)".to_string()),
+            1 => Just("use \"other.stoik\"".to_string()),
+            1 => Just("reaction µ: Fe³⁺ + e⁻ ⇌ Fe²⁺".to_string()),
         ]
     }
 
     fn file() -> impl Strategy<Value = String> {
-        proptest::collection::vec(
-            (line(), prop_oneof![Just("\n"), Just("\r\n"), Just("\r")]),
-            0..60,
-        )
-        .prop_map(|lines| lines.into_iter().map(|(l, e)| l + e).collect())
+        super::super::parser::tests::file_of(line())
     }
 
     /// What an edit writes: a keystroke, a line, a line break, nothing.
