@@ -586,18 +586,18 @@ fn a_file_that_changes_while_it_is_read_gives_a_consistent_result() {
             Some(id) => {
                 // What was read is one version as it was written: whole,
                 // cut (a cut inside a character reads as U+FFFD, with its
-                // own diagnostic) or empty; never two versions spliced.
+                // own diagnostic) or empty; never two versions spliced. A
+                // read can also meet the writer paused between two pages
+                // of one write, with the length and time of the file
+                // unchanged around the read: it then holds the start of
+                // that version, which is still no splice.
                 let text = &ws.file(id).text;
-                let written: Vec<&[u8]> = versions
-                    .iter()
-                    .flat_map(|v| [v.as_slice(), &v[..v.len() / 2 + 1]])
-                    .chain([&b""[..]])
-                    .collect();
+                let start = text.strip_suffix('\u{fffd}').unwrap_or(text);
                 assert!(
-                    written
+                    versions
                         .iter()
-                        .any(|w| String::from_utf8_lossy(w) == text.as_str()),
-                    "a read that is no written version: {} bytes",
+                        .any(|v| String::from_utf8_lossy(v).starts_with(start)),
+                    "a read that is no written version nor the start of one: {} bytes",
                     text.len()
                 );
                 if versions.iter().any(|v| v.as_slice() == text.as_bytes()) {
