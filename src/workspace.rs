@@ -17,12 +17,31 @@ use std::path::{Path, PathBuf};
 pub trait FileSource {
     fn read(&self, path: &Path) -> std::io::Result<Vec<u8>>;
 
-    /// An earlier text of the file at `path` and its syntax tree, when the
-    /// caller kept them: a new text is then parsed by reusing that tree
-    /// ([`crate::syntax::reparse`]), which is how the language server keeps
-    /// up with typing in a large file.
-    fn earlier(&self, _path: &Path) -> Option<(&str, &SourceFile)> {
+    /// An earlier reading of the file at `path`, when the caller kept one:
+    /// a new text is then parsed and indexed by reusing it
+    /// ([`crate::syntax::reparse`], [`LineIndex::reusing`]), which is how
+    /// the language server keeps up with typing in a large file.
+    fn earlier(&self, _path: &Path) -> Option<Earlier<'_>> {
         None
+    }
+}
+
+/// A file's text as it was read before, with its syntax tree and its line
+/// index.
+#[derive(Clone, Copy)]
+pub struct Earlier<'a> {
+    pub text: &'a str,
+    pub syntax: &'a SourceFile,
+    pub index: &'a LineIndex,
+}
+
+impl<'a> Earlier<'a> {
+    pub fn of(file: &'a SourceText) -> Self {
+        Earlier {
+            text: &file.text,
+            syntax: &file.syntax,
+            index: &file.index,
+        }
     }
 }
 
@@ -106,8 +125,8 @@ impl Parsed {
         Parsed::reusing(bytes, None)
     }
 
-    /// Decode and parse `bytes`, reusing an earlier text and tree if given.
-    fn reusing(bytes: Vec<u8>, earlier: Option<(&str, &SourceFile)>) -> Parsed {
+    /// Decode, parse and index `bytes`, reusing an earlier reading if given.
+    fn reusing(bytes: Vec<u8>, earlier: Option<Earlier>) -> Parsed {
         let (text, bad_utf8) = match String::from_utf8(bytes) {
             Ok(text) => (text, None),
             Err(e) => {
@@ -115,11 +134,13 @@ impl Parsed {
                 (String::from_utf8_lossy(e.as_bytes()).into_owned(), Some(at))
             }
         };
-        let syntax = match earlier {
-            Some((old_text, old)) => crate::syntax::reparse(old_text, old, &text),
-            None => crate::syntax::parse(&text),
+        let (syntax, index) = match earlier {
+            Some(e) => (
+                crate::syntax::reparse(e.text, e.syntax, &text),
+                LineIndex::reusing(e.index, e.text, &text),
+            ),
+            None => (crate::syntax::parse(&text), LineIndex::new(&text)),
         };
-        let index = LineIndex::new(&text);
         Parsed {
             text,
             bad_utf8,

@@ -7,9 +7,8 @@
 use crate::analysis::{Analysis, LibraryResult, analyze};
 use crate::config::{Config, find_root};
 use crate::span::FileId;
-use crate::syntax::ast::SourceFile;
 use crate::syntax::line_index::Encoding;
-use crate::workspace::{FileSource, Overlay, SourceText, Workspace};
+use crate::workspace::{Earlier, FileSource, Overlay, SourceText, Workspace};
 use std::collections::HashMap;
 use std::path::{Path, PathBuf};
 
@@ -111,9 +110,8 @@ impl FileSource for Edited<'_> {
         self.overlay.read(path)
     }
 
-    fn earlier(&self, path: &Path) -> Option<(&str, &SourceFile)> {
+    fn earlier(&self, path: &Path) -> Option<Earlier<'_>> {
         let ws = self.earlier?;
-        let file = ws.file(ws.id_of(path)?);
-        Some((file.text.as_str(), &file.syntax))
+        Some(Earlier::of(ws.file(ws.id_of(path)?)))
     }
 }

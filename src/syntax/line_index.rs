@@ -23,7 +23,7 @@ pub struct Position {
 }
 
 /// Line starts of one text.
-#[derive(Clone, Debug)]
+#[derive(Clone, Debug, PartialEq, Eq)]
 pub struct LineIndex {
     starts: Vec<usize>,
     /// For each line, whether it is pure ASCII.
@@ -54,6 +54,70 @@ impl LineIndex {
             start = next;
         }
         ascii.push(bytes[start..].is_ascii());
+        LineIndex {
+            starts,
+            ascii,
+            len: text.len(),
+        }
+    }
+
+    /// The index of `text`, reusing `old`, the index of `old_text`: only
+    /// the lines around the bytes that differ are scanned again, and the
+    /// starts after them are moved. The language server indexes each new
+    /// text of a document this way.
+    pub fn reusing(old: &LineIndex, old_text: &str, text: &str) -> Self {
+        let (old_bytes, bytes) = (old_text.as_bytes(), text.as_bytes());
+        if old.len != old_bytes.len() {
+            return LineIndex::new(text);
+        }
+        let prefix = super::reparse::common_prefix(old_bytes, bytes);
+        if prefix == old_bytes.len() && prefix == bytes.len() {
+            return old.clone();
+        }
+        let limit = old_bytes.len().min(bytes.len()) - prefix;
+        let suffix = super::reparse::common_suffix(old_bytes, bytes, limit);
+        // From the line before the change: a change at the start of a line
+        // can join a `\r` that ends the line before to a `\n`.
+        let first = old.line_of(prefix).saturating_sub(1);
+        // The first old start whose line break lies in the unchanged end.
+        let keep = old
+            .starts
+            .partition_point(|&s| s <= old_bytes.len() - suffix);
+        let moved = |s: usize| s + bytes.len() - old_bytes.len();
+        let end = old.starts.get(keep).map(|&s| moved(s));
+        let mut starts = Vec::with_capacity(old.starts.len() + 16);
+        starts.extend_from_slice(&old.starts[..=first]);
+        let mut ascii = Vec::with_capacity(old.ascii.len() + 16);
+        ascii.extend_from_slice(&old.ascii[..first]);
+        let mut start = old.starts[first];
+        loop {
+            let Some(found) = memchr::memchr2(b'\n', b'\r', &bytes[start..]) else {
+                if end.is_some() {
+                    // The kept starts were not met: index the whole text.
+                    return LineIndex::new(text);
+                }
+                ascii.push(bytes[start..].is_ascii());
+                break;
+            };
+            let at = start + found;
+            ascii.push(bytes[start..at].is_ascii());
+            let next = if bytes[at] == b'\r' && bytes.get(at + 1) == Some(&b'\n') {
+                at + 2
+            } else {
+                at + 1
+            };
+            match end {
+                Some(e) if next == e => {
+                    starts.extend(old.starts[keep..].iter().map(|&s| moved(s)));
+                    ascii.extend_from_slice(&old.ascii[keep..]);
+                    break;
+                }
+                Some(e) if next > e => return LineIndex::new(text),
+                _ => {}
+            }
+            starts.push(next);
+            start = next;
+        }
         LineIndex {
             starts,
             ascii,
@@ -122,27 +186,63 @@ impl LineIndex {
             return text.len();
         }
         let range = self.line_range(text, line);
-        let want = position.column as usize;
-        if self.ascii[line] || encoding == Encoding::Utf8 {
-            let mut at = (range.start + want).min(range.end);
-            while !text.is_char_boundary(at) {
-                at -= 1;
-            }
-            return at;
-        }
-        let mut units = 0usize;
-        for (i, c) in text[range.clone()].char_indices() {
-            let width = match encoding {
-                Encoding::Utf16 => c.len_utf16(),
-                _ => 1,
-            };
-            if units + width > want {
-                return range.start + i;
-            }
-            units += width;
-        }
-        range.end
+        column_offset(text, range, position.column, self.ascii[line], encoding)
     }
+}
+
+/// The byte offset of `position` in `text`, as [`LineIndex::offset`] gives
+/// it, found without an index: the line breaks before its line are passed
+/// over once. For one position in a text about to change (an editor's
+/// edit), where indexing the whole text would cost more.
+pub fn offset_in(text: &str, position: Position, encoding: Encoding) -> usize {
+    let bytes = text.as_bytes();
+    let mut start = 0;
+    for _ in 0..position.line {
+        let Some(found) = memchr::memchr2(b'\n', b'\r', &bytes[start..]) else {
+            return text.len();
+        };
+        let at = start + found;
+        start = if bytes[at] == b'\r' && bytes.get(at + 1) == Some(&b'\n') {
+            at + 2
+        } else {
+            at + 1
+        };
+    }
+    let end = memchr::memchr2(b'\n', b'\r', &bytes[start..]).map_or(text.len(), |f| start + f);
+    let ascii = bytes[start..end].is_ascii();
+    column_offset(text, start..end, position.column, ascii, encoding)
+}
+
+/// The byte offset of column `want` of the line at `range` (without its
+/// line end); past the end clamps to it, inside a character moves to its
+/// start.
+fn column_offset(
+    text: &str,
+    range: std::ops::Range<usize>,
+    want: u32,
+    ascii: bool,
+    encoding: Encoding,
+) -> usize {
+    let want = want as usize;
+    if ascii || encoding == Encoding::Utf8 {
+        let mut at = (range.start + want).min(range.end);
+        while !text.is_char_boundary(at) {
+            at -= 1;
+        }
+        return at;
+    }
+    let mut units = 0usize;
+    for (i, c) in text[range.clone()].char_indices() {
+        let width = match encoding {
+            Encoding::Utf16 => c.len_utf16(),
+            _ => 1,
+        };
+        if units + width > want {
+            return range.start + i;
+        }
+        units += width;
+    }
+    range.end
 }
 
 #[cfg(test)]
@@ -181,6 +281,49 @@ mod tests {
             let (starts, ascii) = byte_at_a_time(&text);
             prop_assert_eq!(index.starts, starts);
             prop_assert_eq!(index.ascii, ascii);
+        }
+    }
+
+    proptest! {
+        /// Indexing a new text by reusing the old index gives the index of
+        /// a fresh reading, for any edit, line ends included.
+        #[test]
+        fn reusing_an_index_agrees_with_a_fresh_one(
+            old_text in "[a \n\r°⇌𝛥]{0,60}",
+            at in 0usize..70,
+            removed in 0usize..10,
+            inserted in "[a \n\r°]{0,6}",
+        ) {
+            let mut start = at.min(old_text.len());
+            while !old_text.is_char_boundary(start) {
+                start -= 1;
+            }
+            let mut end = (start + removed).min(old_text.len());
+            while !old_text.is_char_boundary(end) {
+                end -= 1;
+            }
+            let text = format!("{}{}{}", &old_text[..start], inserted, &old_text[end..]);
+            let old = LineIndex::new(&old_text);
+            prop_assert_eq!(LineIndex::reusing(&old, &old_text, &text), LineIndex::new(&text));
+        }
+    }
+
+    proptest! {
+        /// An offset found without an index is the one the index gives.
+        #[test]
+        fn offsets_without_an_index_agree_with_the_index(
+            text in "[a \n\r°⇌𝛥]{0,60}",
+            line in 0u32..12,
+            column in 0u32..12,
+        ) {
+            let index = LineIndex::new(&text);
+            let position = Position { line, column };
+            for encoding in [Encoding::Utf8, Encoding::Utf16, Encoding::Utf32] {
+                prop_assert_eq!(
+                    offset_in(&text, position, encoding),
+                    index.offset(&text, position, encoding)
+                );
+            }
         }
     }
 

@@ -85,7 +85,7 @@ pub fn reparse(old_text: &str, old: &SourceFile, text: &str) -> SourceFile {
 }
 
 /// The length of the longest common start of `a` and `b`.
-fn common_prefix(a: &[u8], b: &[u8]) -> usize {
+pub(crate) fn common_prefix(a: &[u8], b: &[u8]) -> usize {
     // Compared in blocks first: the slice comparison is vectorised.
     const BLOCK: usize = 256;
     let n = a.len().min(b.len());
@@ -100,7 +100,7 @@ fn common_prefix(a: &[u8], b: &[u8]) -> usize {
 }
 
 /// The length of the longest common end of `a` and `b`, at most `limit`.
-fn common_suffix(a: &[u8], b: &[u8], limit: usize) -> usize {
+pub(crate) fn common_suffix(a: &[u8], b: &[u8], limit: usize) -> usize {
     const BLOCK: usize = 256;
     let (la, lb) = (a.len(), b.len());
     let mut n = 0;
