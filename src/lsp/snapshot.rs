@@ -51,8 +51,8 @@ pub struct JobError(pub String);
 /// Analyse the open document at `path` with the unsaved texts of every open
 /// document laid over the disk. This is the whole work of one edit; the
 /// benchmarks call it directly. `earlier`, the document's last snapshot,
-/// lends its syntax trees: each file is parsed again only where its text
-/// changed.
+/// lends its syntax trees and line indexes: each file is parsed and indexed
+/// again only where its text changed.
 pub fn build(
     path: &Path,
     version: i32,
@@ -98,8 +98,8 @@ pub fn build_with(
     })
 }
 
-/// The texts of an edit, with the workspace of the last analysis to reuse
-/// the syntax trees of.
+/// The texts of an edit, with the workspace of the last analysis, whose
+/// syntax trees and line indexes are reused.
 struct Edited<'a> {
     overlay: Overlay,
     earlier: Option<&'a Workspace>,
