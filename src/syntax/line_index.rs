@@ -45,11 +45,7 @@ impl LineIndex {
         while let Some(found) = memchr::memchr2(b'\n', b'\r', &bytes[start..]) {
             let at = start + found;
             ascii.push(bytes[start..at].is_ascii());
-            let next = if bytes[at] == b'\r' && bytes.get(at + 1) == Some(&b'\n') {
-                at + 2
-            } else {
-                at + 1
-            };
+            let next = after_break(bytes, at);
             starts.push(next);
             start = next;
         }
@@ -101,11 +97,7 @@ impl LineIndex {
             };
             let at = start + found;
             ascii.push(bytes[start..at].is_ascii());
-            let next = if bytes[at] == b'\r' && bytes.get(at + 1) == Some(&b'\n') {
-                at + 2
-            } else {
-                at + 1
-            };
+            let next = after_break(bytes, at);
             match end {
                 Some(e) if next == e => {
                     starts.extend(old.starts[keep..].iter().map(|&s| moved(s)));
@@ -202,15 +194,21 @@ pub fn offset_in(text: &str, position: Position, encoding: Encoding) -> usize {
             return text.len();
         };
         let at = start + found;
-        start = if bytes[at] == b'\r' && bytes.get(at + 1) == Some(&b'\n') {
-            at + 2
-        } else {
-            at + 1
-        };
+        start = after_break(bytes, at);
     }
     let end = memchr::memchr2(b'\n', b'\r', &bytes[start..]).map_or(text.len(), |f| start + f);
     let ascii = bytes[start..end].is_ascii();
     column_offset(text, start..end, position.column, ascii, encoding)
+}
+
+/// The start of the line after the line break at `at`: `\r\n` is one
+/// break, as are a lone `\n` and a lone `\r`.
+fn after_break(bytes: &[u8], at: usize) -> usize {
+    if bytes[at] == b'\r' && bytes.get(at + 1) == Some(&b'\n') {
+        at + 2
+    } else {
+        at + 1
+    }
 }
 
 /// The byte offset of column `want` of the line at `range` (without its
@@ -246,7 +244,7 @@ fn column_offset(
 }
 
 #[cfg(test)]
-mod tests {
+pub(super) mod tests {
     use super::*;
     use proptest::prelude::*;
 
@@ -284,6 +282,15 @@ mod tests {
         }
     }
 
+    /// The nearest character boundary of `text` at or below `at`.
+    pub(in crate::syntax) fn boundary(text: &str, at: usize) -> usize {
+        let mut at = at.min(text.len());
+        while !text.is_char_boundary(at) {
+            at -= 1;
+        }
+        at
+    }
+
     proptest! {
         /// Indexing a new text by reusing the old index gives the index of
         /// a fresh reading, for any edit, line ends included.
@@ -294,21 +301,13 @@ mod tests {
             removed in 0usize..10,
             inserted in "[a \n\r°]{0,6}",
         ) {
-            let mut start = at.min(old_text.len());
-            while !old_text.is_char_boundary(start) {
-                start -= 1;
-            }
-            let mut end = (start + removed).min(old_text.len());
-            while !old_text.is_char_boundary(end) {
-                end -= 1;
-            }
+            let start = boundary(&old_text, at);
+            let end = boundary(&old_text, start + removed);
             let text = format!("{}{}{}", &old_text[..start], inserted, &old_text[end..]);
             let old = LineIndex::new(&old_text);
             prop_assert_eq!(LineIndex::reusing(&old, &old_text, &text), LineIndex::new(&text));
         }
-    }
 
-    proptest! {
         /// An offset found without an index is the one the index gives.
         #[test]
         fn offsets_without_an_index_agree_with_the_index(

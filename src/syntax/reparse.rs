@@ -332,6 +332,7 @@ impl Move {
 
 #[cfg(test)]
 mod tests {
+    use super::super::line_index::tests::boundary;
     use super::*;
     use proptest::prelude::*;
 
@@ -363,15 +364,6 @@ mod tests {
             line().prop_map(|l| l + "\n"),
             "[a-zA-Z =<>#:;\n0-9()+-]{0,12}",
         ]
-    }
-
-    /// The nearest character boundary at or below `at`.
-    fn boundary(text: &str, at: usize) -> usize {
-        let mut at = at.min(text.len());
-        while !text.is_char_boundary(at) {
-            at -= 1;
-        }
-        at
     }
 
     proptest! {
