@@ -130,7 +130,7 @@ pub fn lower(ws: &Workspace, files: &[FileId], config: &Config) -> (Library, Vec
         (heads, shells)
     });
     l.diags.extend(shell_diags);
-    l.finish_reactions(shells, heads);
+    l.finish_reactions(shells, heads, aside);
     clock.mark("reaction bodies");
     l.lib.reactions.shrink_to_fit();
     l.lib.species.shrink_to_fit();
@@ -278,12 +278,16 @@ impl<'w> Lowering<'w> {
     }
 
     /// Finish every reaction: give each shell the terms its head read and
-    /// check its balance. Large libraries finish in two halves side by
-    /// side, each half's diagnostics appended in order.
-    fn finish_reactions(&mut self, mut shells: Vec<Reaction>, mut heads: Vec<ReactionHead>) {
+    /// check its balance. With `parallel`, in two halves side by side, each
+    /// half's diagnostics appended in order.
+    fn finish_reactions(
+        &mut self,
+        mut shells: Vec<Reaction>,
+        mut heads: Vec<ReactionHead>,
+        parallel: bool,
+    ) {
         let (ws, config) = (self.ws, self.config);
-        let cores = std::thread::available_parallelism().map_or(1, std::num::NonZeroUsize::get);
-        let split = if cores > 1 && heads.len() >= PARALLEL_REACTIONS {
+        let split = if parallel {
             heads.len() / 2
         } else {
             heads.len()

@@ -24,14 +24,7 @@ pub fn reparse(old_text: &str, old: &SourceFile, text: &str) -> SourceFile {
     let (old_bytes, bytes) = (old_text.as_bytes(), text.as_bytes());
     let prefix = common_prefix(old_bytes, bytes);
     if prefix == old_bytes.len() && prefix == bytes.len() {
-        let mut same = copy(
-            old,
-            0..old.statements.len(),
-            0..old.comments.len(),
-            Move::NONE,
-        );
-        same.errors = old.errors.clone();
-        return same;
+        return old.clone();
     }
     let limit = old_bytes.len().min(bytes.len()) - prefix;
     let suffix = common_suffix(old_bytes, bytes, limit);
