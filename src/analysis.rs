@@ -40,7 +40,15 @@ impl Analysis {
 
 /// Analyse every library of a loaded workspace.
 pub fn analyze(workspace: Workspace, config: &Config) -> Analysis {
-    analyze_with(workspace, config, true)
+    analyze_with(workspace, config, true, None)
+}
+
+/// [`analyze`] for the language server, which analyses a document again
+/// after every edit: each library keeps its species numbering, and reuses
+/// the numbering of the library with the same top file in `last` (the
+/// last analysis) when the edit left it standing.
+pub fn analyze_after(workspace: Workspace, config: &Config, last: Option<&Analysis>) -> Analysis {
+    analyze_with(workspace, config, true, Some(last))
 }
 
 /// [`analyze`] for callers that need only the diagnostics and the models
@@ -48,10 +56,17 @@ pub fn analyze(workspace: Workspace, config: &Config) -> Analysis {
 /// lowered, which on a library of 10^5 reactions is a third of the memory.
 /// Comments, texts and line indexes stay, for suppressions and positions.
 pub fn analyze_for_diagnostics(workspace: Workspace, config: &Config) -> Analysis {
-    analyze_with(workspace, config, false)
+    analyze_with(workspace, config, false, None)
 }
 
-fn analyze_with(mut workspace: Workspace, config: &Config, keep_syntax: bool) -> Analysis {
+/// The analysis; `after` is `Some` when the libraries keep their species
+/// numbering, with the last analysis whose numbering they may reuse.
+fn analyze_with(
+    mut workspace: Workspace,
+    config: &Config,
+    keep_syntax: bool,
+    after: Option<Option<&Analysis>>,
+) -> Analysis {
     let mut raw: Vec<Diagnostic> = workspace.diagnostics.clone();
     for f in &workspace.files {
         for e in &f.syntax.errors {
@@ -66,7 +81,23 @@ fn analyze_with(mut workspace: Workspace, config: &Config, keep_syntax: bool) ->
     for top in workspace.tops() {
         let files = workspace.closure(top);
         let clock = crate::checks::Phases::start();
-        let (library, diags) = crate::model::lower::lower(&workspace, &files, config);
+        let (library, diags) = match after {
+            None => crate::model::lower::lower(&workspace, &files, config),
+            Some(last) => {
+                let path = &workspace.file(top).path;
+                let last = last.and_then(|a| {
+                    a.libraries
+                        .iter()
+                        .find(|l| a.workspace.file(l.top).path == *path)
+                });
+                crate::model::lower::lower_after(
+                    &workspace,
+                    &files,
+                    config,
+                    last.map(|l| &l.library),
+                )
+            }
+        };
         clock.mark("lowering");
         raw.extend(diags);
         libraries.push(LibraryResult { top, library });

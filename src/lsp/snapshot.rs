@@ -4,7 +4,7 @@
 //! it. A snapshot is never changed after it is built, so handlers share it
 //! through an `Arc` without locks.
 
-use crate::analysis::{Analysis, LibraryResult, analyze};
+use crate::analysis::{Analysis, LibraryResult, analyze_after};
 use crate::config::{Config, find_root};
 use crate::span::FileId;
 use crate::syntax::line_index::Encoding;
@@ -87,7 +87,7 @@ pub fn build_with(
         .load(path, &source)
         .map_err(|e| JobError(format!("cannot read {}: {}", e.path.display(), e.error)))?;
     clock.mark("reading and parsing");
-    let analysis = analyze(ws, &config);
+    let analysis = analyze_after(ws, &config, earlier.map(|s| &s.analysis));
     Ok(Snapshot {
         path: path.to_path_buf(),
         version,

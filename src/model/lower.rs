@@ -21,6 +21,10 @@ use crate::syntax::parser::truncate;
 use crate::workspace::Workspace;
 use compact_str::CompactString;
 use rustc_hash::FxHashMap as HashMap;
+use std::sync::Arc;
+
+mod numbering;
+pub use numbering::Numbering;
 
 /// The attributes a species takes.
 pub const SPECIES_ATTRIBUTES: &[&str] = &["dHf", "dGf", "S", "Cp", "source"];
@@ -67,6 +71,37 @@ pub const ARRHENIUS_ARGUMENTS: &[&str] = &["A", "n", "Ea"];
 
 /// Build the library of `files` (the used files before their users).
 pub fn lower(ws: &Workspace, files: &[FileId], config: &Config) -> (Library, Vec<Diagnostic>) {
+    lower_with(ws, files, config, Memory::Forget)
+}
+
+/// [`lower`] for the language server, which lowers the same library again
+/// after every edit: the library keeps its species numbering, and the
+/// numbering of `last` (the library of the last analysis) is reused when
+/// the edit left the species texts and declarations it depends on alone.
+pub fn lower_after(
+    ws: &Workspace,
+    files: &[FileId],
+    config: &Config,
+    last: Option<&Library>,
+) -> (Library, Vec<Diagnostic>) {
+    lower_with(ws, files, config, Memory::Keep(last))
+}
+
+/// Whether a lowering keeps its species numbering for the next one.
+#[derive(Clone, Copy)]
+enum Memory<'a> {
+    /// A single run (the command line): nothing is kept.
+    Forget,
+    /// Kept, with the last library's numbering to reuse if it still holds.
+    Keep(Option<&'a Library>),
+}
+
+fn lower_with(
+    ws: &Workspace,
+    files: &[FileId],
+    config: &Config,
+    memory: Memory,
+) -> (Library, Vec<Diagnostic>) {
     let mut l = Lowering {
         ws,
         config,
@@ -76,8 +111,8 @@ pub fn lower(ws: &Workspace, files: &[FileId], config: &Config) -> (Library, Vec
         },
         diags: Vec::new(),
         aliases: HashMap::default(),
-        by_key: HashMap::default(),
-        by_text: HashMap::default(),
+        by_key: Arc::default(),
+        by_text: Arc::default(),
         labels: HashMap::default(),
     };
     let count = l.reserve(files);
@@ -103,7 +138,7 @@ pub fn lower(ws: &Workspace, files: &[FileId], config: &Config) -> (Library, Vec
         let shells = aside.then(|| {
             scope.spawn(move || Lowering::reaction_shells(ws, config, files, readers, count))
         });
-        l.settle_names_ahead(files, aside);
+        l.settle_names_ahead(files, aside, memory);
         clock.mark("species names");
         let mut heads = Vec::with_capacity(count);
         for (&file, reader) in files.iter().zip(readers) {
@@ -156,10 +191,12 @@ struct Lowering<'w> {
     lib: Library,
     diags: Vec<Diagnostic>,
     aliases: HashMap<CompactString, SpeciesId>,
-    /// Species by the canonical key of their formula (non-alias species).
-    by_key: HashMap<FormulaKey, SpeciesId>,
-    /// Resolution of each species text met so far (`None` when it failed).
-    by_text: HashMap<CompactString, Option<SpeciesId>>,
+    /// Species by the canonical key of their formula (non-alias species),
+    /// shared with the numbering a library keeps.
+    by_key: Arc<HashMap<FormulaKey, SpeciesId>>,
+    /// Resolution of each species text met so far (`None` when it failed),
+    /// shared likewise.
+    by_text: Arc<HashMap<CompactString, Option<SpeciesId>>>,
     labels: HashMap<CompactString, Loc>,
 }
 
@@ -196,6 +233,12 @@ struct NameReading<'a> {
     reading: Reading,
 }
 
+/// The hint that a formula reads in a way its writer may not have meant.
+fn reading_note(file: FileId, span: crate::span::Span, note: String) -> Diagnostic {
+    Diagnostic::new("ambiguous-formula", file, span, note)
+        .with_severity(crate::diagnostic::Severity::Hint)
+}
+
 /// What `text` names, given the declared aliases.
 fn read_name(aliases: &HashMap<CompactString, SpeciesId>, text: &str) -> Reading {
     if let Some(id) = aliases.get(text) {
@@ -228,15 +271,27 @@ fn read_names<'a>(
     aliases: &HashMap<CompactString, SpeciesId>,
     statements: &[(FileId, &'a Statement)],
 ) -> Vec<NameReading<'a>> {
+    first_met(aliases, statements)
+        .into_iter()
+        .map(|(file, name)| NameReading {
+            file,
+            name,
+            reading: read_name(aliases, &name.text),
+        })
+        .collect()
+}
+
+/// The distinct species texts of `statements` (equations and named
+/// mixtures) in the order they are first met.
+fn first_met<'a>(
+    aliases: &HashMap<CompactString, SpeciesId>,
+    statements: &[(FileId, &'a Statement)],
+) -> Vec<(FileId, &'a ast::Name)> {
     let mut seen: rustc_hash::FxHashSet<&str> = rustc_hash::FxHashSet::default();
     let mut out = Vec::new();
     let mut meet = |file: FileId, name: &'a ast::Name| {
         if seen.insert(name.text.as_str()) {
-            out.push(NameReading {
-                file,
-                name,
-                reading: read_name(aliases, &name.text),
-            });
+            out.push((file, name));
         }
     };
     for &(file, s) in statements {
@@ -271,8 +326,8 @@ impl<'w> Lowering<'w> {
             lib: Library::default(),
             diags: Vec::new(),
             aliases: HashMap::default(),
-            by_key: HashMap::default(),
-            by_text: HashMap::default(),
+            by_key: Arc::default(),
+            by_text: Arc::default(),
             labels: HashMap::default(),
         }
     }
@@ -351,7 +406,7 @@ impl<'w> Lowering<'w> {
             }
         }
         self.lib.species.reserve(species);
-        self.by_key.reserve(species);
+        Arc::make_mut(&mut self.by_key).reserve(species);
         self.labels.reserve(labels);
         reactions
     }
@@ -478,7 +533,7 @@ impl<'w> Lowering<'w> {
                     let id =
                         self.new_species(formula_name.text.as_str().to_owned(), None, parsed, loc);
                     self.lib.species[id.0 as usize].declared = Some(loc);
-                    self.by_key.insert(key, id);
+                    Arc::make_mut(&mut self.by_key).insert(key, id);
                     id
                 }
             }
@@ -512,10 +567,7 @@ impl<'w> Lowering<'w> {
         if let Some(note) = &f.reading_note
             && !self.by_text.contains_key(&name.text)
         {
-            self.push(
-                Diagnostic::new("ambiguous-formula", file, name.span, note.clone())
-                    .with_severity(crate::diagnostic::Severity::Hint),
-            );
+            self.push(reading_note(file, name.span, note.clone()));
         }
     }
 
@@ -569,7 +621,7 @@ impl<'w> Lowering<'w> {
                 self.reading_note(file, name, &formula);
                 // The species a new formula becomes is the next one.
                 let next = SpeciesId(self.lib.species.len() as u32);
-                match self.by_key.entry(key) {
+                match Arc::make_mut(&mut self.by_key).entry(key) {
                     std::collections::hash_map::Entry::Occupied(e) => Some(*e.get()),
                     std::collections::hash_map::Entry::Vacant(e) => {
                         e.insert(next);
@@ -580,7 +632,7 @@ impl<'w> Lowering<'w> {
                 }
             }
         };
-        self.by_text.insert(name.text.clone(), resolved);
+        Arc::make_mut(&mut self.by_text).insert(name.text.clone(), resolved);
         resolved
     }
 
@@ -589,8 +641,9 @@ impl<'w> Lowering<'w> {
     /// pass in statement order finds each one already settled. Reading
     /// (the formula parser) is the costly part and depends on nothing but
     /// the text and the aliases, so large libraries read it in two halves
-    /// side by side; only the numbering is serial.
-    fn settle_names_ahead(&mut self, files: &[FileId], parallel: bool) {
+    /// side by side; only the numbering is serial. A lowering that keeps
+    /// its numbering goes through [`Lowering::number_keeping`].
+    fn settle_names_ahead(&mut self, files: &[FileId], parallel: bool, memory: Memory) {
         let ws = self.ws;
         let statements: Vec<(FileId, &Statement)> = files
             .iter()
@@ -605,6 +658,10 @@ impl<'w> Lowering<'w> {
                 )
             })
             .collect();
+        if let Memory::Keep(last) = memory {
+            self.number_keeping(&statements, parallel, last);
+            return;
+        }
         let aliases = &self.aliases;
         let parts: Vec<Vec<NameReading>> = if parallel {
             let (first, second) = statements.split_at(statements.len() / 2);
@@ -621,10 +678,7 @@ impl<'w> Lowering<'w> {
         };
         // Sized once for every text read (a text met in both halves is
         // counted twice), so that numbering them never rehashes.
-        let texts: usize = parts.iter().map(Vec::len).sum();
-        self.lib.species.reserve(texts);
-        self.by_text.reserve(texts);
-        self.by_key.reserve(texts);
+        self.reserve_names(parts.iter().map(Vec::len).sum());
         for (i, part) in parts.into_iter().enumerate() {
             // The first part's texts are distinct and none was met before.
             let fresh = i == 0 && self.by_text.is_empty();
@@ -634,6 +688,14 @@ impl<'w> Lowering<'w> {
                 }
             }
         }
+    }
+
+    /// Room for `texts` more species texts, so that numbering them never
+    /// rehashes.
+    fn reserve_names(&mut self, texts: usize) {
+        self.lib.species.reserve(texts);
+        Arc::make_mut(&mut self.by_text).reserve(texts);
+        Arc::make_mut(&mut self.by_key).reserve(texts);
     }
 
     fn report_unresolved(&mut self, file: FileId, name: &ast::Name) {

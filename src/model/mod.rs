@@ -319,6 +319,9 @@ pub struct Library {
     pub species: Vec<Species>,
     pub reactions: Vec<Reaction>,
     pub mixtures: Vec<Mixture>,
+    /// How its species were numbered, kept only by lowerings that the
+    /// language server repeats after every edit ([`lower::lower_after`]).
+    pub numbering: Option<lower::Numbering>,
 }
 
 impl Library {

@@ -1,0 +1,296 @@
+//! The species numbering of the last analysis, kept by the language server.
+//!
+//! Numbering the species a library names is the largest share of lowering
+//! it: every distinct species text of its equations and mixtures is read by
+//! the formula parser and numbered in the order texts are first met. Most
+//! edits (a value, a unit, a comment, a new line) leave those texts alone,
+//! so a lowering for the server keeps what its numbering started from and
+//! what it gave. When the next lowering of the library meets the same texts
+//! in the same files and order, after the same declarations, its species
+//! are the last ones, each placed where its text is now first met; anything
+//! else is numbered afresh.
+
+use super::*;
+
+/// A library's species numbering, with what it started from. Its parts are
+/// shared, so that a library whose numbering was reused holds it for the
+/// price of a few counters.
+#[derive(Clone, Debug, Default)]
+pub struct Numbering {
+    /// How many species the declarations had made when numbering began.
+    declared: usize,
+    /// The aliases the declarations left.
+    aliases: Arc<HashMap<CompactString, SpeciesId>>,
+    /// The formula keys of the declared species.
+    declared_keys: Arc<HashMap<FormulaKey, SpeciesId>>,
+    /// The distinct species texts of the equations and named mixtures, in
+    /// the order they were first met, with their files.
+    texts: Arc<Vec<(FileId, CompactString)>>,
+    /// For each species the numbering made, in order, the index of its
+    /// text in `texts`.
+    made: Arc<Vec<u32>>,
+    /// The reading notes it gave, each with the index of its text.
+    notes: Arc<Vec<(u32, String)>>,
+    /// What every text and every formula key names once numbered.
+    by_text: Arc<HashMap<CompactString, Option<SpeciesId>>>,
+    by_key: Arc<HashMap<FormulaKey, SpeciesId>>,
+}
+
+impl Lowering<'_> {
+    /// Number the species texts of `statements` as
+    /// [`Lowering::settle_names_ahead`] does, reusing the numbering of
+    /// `last` when it still holds, and keep the numbering in the library.
+    pub(super) fn number_keeping(
+        &mut self,
+        statements: &[(FileId, &Statement)],
+        parallel: bool,
+        last: Option<&Library>,
+    ) {
+        let met = first_met(&self.aliases, statements);
+        if let Some(last) = last
+            && let Some(numbering) = &last.numbering
+            && self.still_holds(numbering, &last.species, &met)
+        {
+            self.renumber(numbering, &last.species, &met);
+            return;
+        }
+        let declared = self.lib.species.len();
+        let aliases = Arc::new(self.aliases.clone());
+        let declared_keys = Arc::clone(&self.by_key);
+        // A numbering that did not start from nothing (never, as the
+        // declarations settle no texts) is not kept.
+        let fresh = self.by_text.is_empty();
+        let readings = read_in_halves(&self.aliases, &met, parallel);
+        self.reserve_names(met.len());
+        let mut made = Vec::new();
+        let mut notes = Vec::new();
+        for (i, (&(file, name), reading)) in met.iter().zip(readings).enumerate() {
+            let (species, diags) = (self.lib.species.len(), self.diags.len());
+            self.settle(file, name, reading);
+            if self.lib.species.len() > species {
+                made.push(i as u32);
+            }
+            if let Some(note) = self.diags.get(diags) {
+                notes.push((i as u32, note.message.clone()));
+            }
+        }
+        self.lib.numbering = fresh.then(|| Numbering {
+            declared,
+            aliases,
+            declared_keys,
+            texts: Arc::new(
+                met.iter()
+                    .map(|&(file, name)| (file, name.text.clone()))
+                    .collect(),
+            ),
+            made: Arc::new(made),
+            notes: Arc::new(notes),
+            by_text: Arc::clone(&self.by_text),
+            by_key: Arc::clone(&self.by_key),
+        });
+    }
+
+    /// True when numbering `met` now would give what `numbering` gave:
+    /// the same declarations before it, the same texts in the same files
+    /// and order, and the species it made still in `species`.
+    fn still_holds(
+        &self,
+        numbering: &Numbering,
+        species: &[Species],
+        met: &[(FileId, &ast::Name)],
+    ) -> bool {
+        self.by_text.is_empty()
+            && self.lib.species.len() == numbering.declared
+            && species.len() >= numbering.declared + numbering.made.len()
+            && numbering.texts.len() == met.len()
+            && *numbering.aliases == self.aliases
+            && *numbering.declared_keys == *self.by_key
+            && numbering
+                .texts
+                .iter()
+                .zip(met)
+                .all(|((file, text), (now_file, name))| file == now_file && *text == name.text)
+    }
+
+    /// Take the species, maps and notes of a numbering that still holds,
+    /// each species first met and each note given where its text now is.
+    fn renumber(
+        &mut self,
+        numbering: &Numbering,
+        species: &[Species],
+        met: &[(FileId, &ast::Name)],
+    ) {
+        let made = &species[numbering.declared..numbering.declared + numbering.made.len()];
+        self.lib.species.reserve(made.len());
+        for (s, &text) in made.iter().zip(numbering.made.iter()) {
+            let (file, name) = met[text as usize];
+            self.lib.species.push(Species {
+                first_use: Loc::new(file, name.span),
+                ..s.clone()
+            });
+        }
+        for (text, note) in numbering.notes.iter() {
+            let (file, name) = met[*text as usize];
+            self.push(reading_note(file, name.span, note.clone()));
+        }
+        self.by_text = Arc::clone(&numbering.by_text);
+        self.by_key = Arc::clone(&numbering.by_key);
+        self.lib.numbering = Some(numbering.clone());
+    }
+}
+
+/// The readings of `met`, in its order; large runs in two halves side by
+/// side.
+fn read_in_halves(
+    aliases: &HashMap<CompactString, SpeciesId>,
+    met: &[(FileId, &ast::Name)],
+    parallel: bool,
+) -> Vec<Reading> {
+    let read = |part: &[(FileId, &ast::Name)]| -> Vec<Reading> {
+        part.iter()
+            .map(|(_, name)| read_name(aliases, &name.text))
+            .collect()
+    };
+    if !parallel {
+        return read(met);
+    }
+    let (first, second) = met.split_at(met.len() / 2);
+    std::thread::scope(|scope| {
+        let other = scope.spawn(|| read(second));
+        let mut mine = read(first);
+        match other.join() {
+            Ok(more) => mine.extend(more),
+            // Re-raise on this thread, where the callers catch panics.
+            Err(panic) => std::panic::resume_unwind(panic),
+        }
+        mine
+    })
+}
+
+#[cfg(test)]
+mod tests {
+    use crate::lsp::snapshot::{Snapshot, build_with};
+    use proptest::prelude::*;
+    use std::collections::HashMap;
+    use std::path::{Path, PathBuf};
+    use std::sync::Arc;
+
+    /// Pieces of a library: declarations with aliases, formulas met first
+    /// in equations or in mixtures, formulas with reading notes, names
+    /// that resolve to nothing, and a header that changes units.
+    const PIECES: &[&str] = &[
+        "species ethanol = C2H5OH(l)\n  dGf = -174.8 kJ/mol\n",
+        "species CO2(g)\n",
+        "reaction r1: CO(g) + 0.5 O2(g) <=> CO2(g)\n  K = 1e45 at 298.15 K\n",
+        "reaction: ethanol + 3 O2(g) -> 2 CO2(g) + 3 H2O(l)\n",
+        "reaction r2: Hg2+(aq) + 2 e- <=> Hg(l)\n  K = 1e28\n",
+        "reaction: O2-(aq) + H2O(l) <=> OH-(aq) + HO(aq)\n",
+        "mixture m\n  temperature = 900 K\n  CO(g) = 1 mol/L\n  ethanol = 0.1 mol/L\n",
+        "reaction: Xx(g) <=> propanol\n",
+        "units energy = kcal/mol\n",
+        "# a note\n",
+        "reaction: C3H8(g) <=> C3H6(g) + H2(g)\n  dH = 124 kJ/mol\n",
+    ];
+
+    fn file() -> impl Strategy<Value = String> {
+        proptest::collection::vec(0..PIECES.len(), 1..12)
+            .prop_map(|picks| picks.into_iter().map(|i| PIECES[i]).collect())
+    }
+
+    fn insertion() -> impl Strategy<Value = String> {
+        prop_oneof![
+            Just(String::new()),
+            Just("#".to_string()),
+            Just("\n".to_string()),
+            Just("2".to_string()),
+            Just("(g)".to_string()),
+            Just(" + CO(g)".to_string()),
+            (0..PIECES.len()).prop_map(|i| PIECES[i].to_string()),
+        ]
+    }
+
+    fn analyse(text: &str, version: i32, last: Option<&Snapshot>) -> Snapshot {
+        let path = PathBuf::from("/numbering/lib.stoik");
+        let texts = HashMap::from([(path.clone(), text.to_string())]);
+        let root = Path::new("/numbering");
+        build_with(&path, version, texts, root, Default::default(), None, last)
+            .expect("the overlay serves the file")
+    }
+
+    /// What a user can see of an analysis: its diagnostics and its library
+    /// (the numbering's maps aside, whose order is a hash table's).
+    fn seen(snap: &Snapshot) -> String {
+        let a = &snap.analysis;
+        let libraries: Vec<String> = a
+            .libraries
+            .iter()
+            .map(|l| {
+                let lib = &l.library;
+                format!(
+                    "{:?} {:?} {:?} {:?}",
+                    lib.files, lib.species, lib.reactions, lib.mixtures
+                )
+            })
+            .collect();
+        format!("{:?}\n{libraries:?}", a.diagnostics)
+    }
+
+    fn cut(text: &str, at: usize) -> usize {
+        let mut at = at.min(text.len());
+        while !text.is_char_boundary(at) {
+            at -= 1;
+        }
+        at
+    }
+
+    proptest! {
+        /// An analysis that reuses the last numbering sees exactly what a
+        /// fresh analysis of the same text sees, for any edit.
+        #[test]
+        fn reusing_the_numbering_changes_nothing_a_user_sees(
+            old_text in file(),
+            at in 0usize..600,
+            removed in 0usize..40,
+            inserted in insertion(),
+        ) {
+            let start = cut(&old_text, at);
+            let end = cut(&old_text, start + removed);
+            let text = format!("{}{}{}", &old_text[..start], inserted, &old_text[end..]);
+            let last = analyse(&old_text, 1, None);
+            let edited = analyse(&text, 2, Some(&last));
+            let fresh = analyse(&text, 2, None);
+            prop_assert_eq!(seen(&edited), seen(&fresh));
+        }
+    }
+
+    /// Editing a value or typing a comment reuses the numbering; renaming
+    /// a species does not.
+    #[test]
+    fn an_edit_that_leaves_the_species_texts_alone_reuses_their_numbering() {
+        let text = format!("{}{}{}", PIECES[0], PIECES[2], PIECES[6]);
+        let last = analyse(&text, 1, None);
+        let numbering = |s: &Snapshot| {
+            s.analysis.libraries[0]
+                .library
+                .numbering
+                .clone()
+                .expect("the server's lowering keeps its numbering")
+        };
+        let before = numbering(&last);
+        let values = analyse(&text.replace("1e45", "2e45"), 2, Some(&last));
+        assert!(Arc::ptr_eq(&before.by_text, &numbering(&values).by_text));
+        let comment = analyse(&format!("# top\n{text}"), 3, Some(&values));
+        assert!(Arc::ptr_eq(&before.by_text, &numbering(&comment).by_text));
+        // The species first met in the equation moved with the comment.
+        let co = |s: &Snapshot| {
+            let lib = &s.analysis.libraries[0].library;
+            lib.species
+                .iter()
+                .find(|sp| sp.name == "CO(g)")
+                .map(|sp| sp.first_use.span.start)
+        };
+        assert_eq!(co(&comment), co(&values).map(|at| at + "# top\n".len()));
+        let renamed = analyse(&text.replace("CO(g) +", "CO(aq) +"), 4, Some(&comment));
+        assert!(!Arc::ptr_eq(&before.by_text, &numbering(&renamed).by_text));
+    }
+}
