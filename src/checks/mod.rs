@@ -143,36 +143,42 @@ pub fn run(ws: &Workspace, lib: &Library, config: &Config) -> Vec<Diagnostic> {
         k: ReactionK::of(lib, reaction),
     });
     prep.mark("K models");
+    // The pair check groups reactions by a key made on every core; the
+    // grouping then runs beside the other checks, whose findings keep the
+    // order they have always had: per reaction, temperatures, mixtures,
+    // pairs, cycles.
+    let keys = on_every_core(&checked, pairs::key);
     let clock = Phases::start();
-    for c in &checked {
-        rates::check(lib, c, &mut out);
-        if c.reaction.reversible() {
-            consistency::check(ws, lib, c, config.tolerance, &mut out);
-        }
-    }
-    clock.mark("per-reaction checks");
-    consistency::temperatures(ws, lib, &checked, &mut out);
-    for m in &lib.mixtures {
-        out.extend(crate::solve::mixture_diagnostics(lib, m));
-    }
-    // The pair and cycle checks are independent: they run side by side.
-    let mut from_cycles = Vec::new();
+    let mut from_pairs = Vec::new();
     std::thread::scope(|scope| {
-        let cycles = scope.spawn(|| {
+        let paired = scope.spawn(|| {
             let mut found = Vec::new();
-            cycles::check(ws, lib, &checked, config.tolerance, &mut found);
+            pairs::check(ws, &checked, &keys, config.tolerance, &mut found);
             found
         });
-        pairs::check(ws, lib, &checked, config.tolerance, &mut out);
-        clock.mark("pairs");
-        match cycles.join() {
-            Ok(found) => from_cycles = found,
+        for c in &checked {
+            rates::check(lib, c, &mut out);
+            if c.reaction.reversible() {
+                consistency::check(ws, lib, c, config.tolerance, &mut out);
+            }
+        }
+        consistency::temperatures(ws, lib, &checked, &mut out);
+        for m in &lib.mixtures {
+            out.extend(crate::solve::mixture_diagnostics(lib, m));
+        }
+        clock.mark("per-reaction checks");
+        let mut found = Vec::new();
+        cycles::check(ws, lib, &checked, config.tolerance, &mut found);
+        clock.mark("cycles");
+        match paired.join() {
+            Ok(pairs) => from_pairs = pairs,
             // Re-raise on this thread, where the callers catch panics.
             Err(panic) => std::panic::resume_unwind(panic),
         }
+        clock.mark("pairs");
+        out.extend(from_pairs.drain(..));
+        out.extend(found);
     });
-    out.extend(from_cycles);
-    clock.mark("cycles");
     out
 }
 

@@ -5,11 +5,12 @@
 use super::{Checked, k_text, number, temperature, tolerance};
 use crate::chem::cycles::{CanonicalKey, canonical_form, canonical_key};
 use crate::diagnostic::{Applicability, Diagnostic, Fix, TextEdit};
-use crate::model::{KForm, Library};
+use crate::model::KForm;
 use crate::workspace::Workspace;
 use num_rational::BigRational;
 use num_traits::ToPrimitive;
 use rustc_hash::FxHashMap as HashMap;
+use std::collections::hash_map::Entry;
 
 fn as_u32_vector(c: &Checked) -> Vec<(u32, num_rational::Ratio<i64>)> {
     c.reaction.net().iter().map(|&(s, v)| (s.0, v)).collect()
@@ -35,24 +36,43 @@ fn multiple_text(s: f64) -> String {
     number(s)
 }
 
+/// The key under which a reaction meets its repeats, reverse and
+/// multiples (`None` for an empty net equation).
+pub(super) fn key(c: &Checked) -> Option<CanonicalKey> {
+    let v = as_u32_vector(c);
+    (!v.is_empty()).then(|| canonical_form(&v))
+}
+
+/// Report every reaction that repeats an earlier one, reverses it or
+/// multiplies it, and K that disagree; `keys` are the reactions' [`key`]s.
 pub(super) fn check(
     ws: &Workspace,
-    _lib: &Library,
     checked: &[Checked],
+    keys: &[Option<CanonicalKey>],
     rel: f64,
     out: &mut Vec<Diagnostic>,
 ) {
-    let mut groups: HashMap<CanonicalKey, Vec<usize>> = HashMap::default();
-    for (i, c) in checked.iter().enumerate() {
-        let v = as_u32_vector(c);
-        if v.is_empty() {
-            continue;
+    // The first reaction of each key, and every later one with the first
+    // of its key: most reactions meet no other, and make no group.
+    let mut first: HashMap<&CanonicalKey, usize> = HashMap::default();
+    first.reserve(keys.len());
+    let mut repeats: Vec<(usize, usize)> = Vec::new();
+    for (i, key) in keys.iter().enumerate() {
+        if let Some(key) = key {
+            match first.entry(key) {
+                Entry::Occupied(e) => repeats.push((*e.get(), i)),
+                Entry::Vacant(e) => {
+                    e.insert(i);
+                }
+            }
         }
-        groups.entry(canonical_form(&v)).or_default().push(i);
     }
-    let mut ordered: Vec<&Vec<usize>> = groups.values().filter(|g| g.len() > 1).collect();
-    ordered.sort_by_key(|g| g[0]);
-    for members in ordered {
+    // Groups in the order of their first reaction, members in theirs.
+    repeats.sort_by_key(|&(first, _)| first);
+    for run in repeats.chunk_by(|a, b| a.0 == b.0) {
+        let members: Vec<usize> = std::iter::once(run[0].0)
+            .chain(run.iter().map(|&(_, i)| i))
+            .collect();
         // Only reactions that meet another need their scale.
         let group: Vec<(usize, BigRational)> = members
             .iter()
