@@ -149,7 +149,6 @@ pub fn run(ws: &Workspace, lib: &Library, config: &Config) -> Vec<Diagnostic> {
     // pairs, cycles.
     let keys = on_every_core(&checked, pairs::key);
     let clock = Phases::start();
-    let mut from_pairs = Vec::new();
     std::thread::scope(|scope| {
         let paired = scope.spawn(|| {
             let mut found = Vec::new();
@@ -170,13 +169,12 @@ pub fn run(ws: &Workspace, lib: &Library, config: &Config) -> Vec<Diagnostic> {
         let mut found = Vec::new();
         cycles::check(ws, lib, &checked, config.tolerance, &mut found);
         clock.mark("cycles");
-        match paired.join() {
-            Ok(pairs) => from_pairs = pairs,
+        let pairs = paired
+            .join()
             // Re-raise on this thread, where the callers catch panics.
-            Err(panic) => std::panic::resume_unwind(panic),
-        }
+            .unwrap_or_else(|panic| std::panic::resume_unwind(panic));
         clock.mark("pairs");
-        out.extend(from_pairs.drain(..));
+        out.extend(pairs);
         out.extend(found);
     });
     out
