@@ -114,6 +114,8 @@ fn lower_with(
         by_key: Arc::default(),
         by_text: Arc::default(),
         labels: HashMap::default(),
+        ahead: Vec::new(),
+        taken: 0,
     };
     let count = l.reserve(files);
     // One unit reader per file, for both passes.
@@ -155,6 +157,10 @@ fn lower_with(
                 }
             }
         }
+        // Every species text was taken; the queue is freed before the
+        // reactions are finished.
+        debug_assert_eq!(l.taken, l.ahead.len());
+        l.ahead = Vec::new();
         clock.mark("reaction heads");
         let shells = match shells {
             Some(handle) => handle
@@ -198,6 +204,12 @@ struct Lowering<'w> {
     /// shared likewise.
     by_text: Arc<HashMap<CompactString, Option<SpeciesId>>>,
     labels: HashMap<CompactString, Loc>,
+    /// Every species text of the equations and mixtures in statement
+    /// order, with what it names once numbered, for [`Lowering::resolve`]
+    /// to take in turn instead of looking each up.
+    ahead: Vec<(&'w ast::Name, Option<SpeciesId>)>,
+    /// How many of `ahead` were taken.
+    taken: usize,
 }
 
 /// A key under which two spellings of one formula in one phase meet.
@@ -266,33 +278,48 @@ fn mixture_names_species(aliases: &HashMap<CompactString, SpeciesId>, text: &str
 }
 
 /// The distinct species texts of `statements` (equations and named
-/// mixtures) in the order they are first met, each read.
+/// mixtures) in the order they are first met, each read, and every
+/// occurrence with the index of its text.
 fn read_names<'a>(
     aliases: &HashMap<CompactString, SpeciesId>,
     statements: &[(FileId, &'a Statement)],
-) -> Vec<NameReading<'a>> {
-    first_met(aliases, statements)
+) -> (Vec<NameReading<'a>>, Vec<Occurrence<'a>>) {
+    let (met, occurrences) = first_met(aliases, statements);
+    let readings = met
         .into_iter()
         .map(|(file, name)| NameReading {
             file,
             name,
             reading: read_name(aliases, &name.text),
         })
-        .collect()
+        .collect();
+    (readings, occurrences)
 }
 
+/// A species text where it stands in an equation or a mixture, with the
+/// index of its text among the distinct ones.
+type Occurrence<'a> = (&'a ast::Name, u32);
+
 /// The distinct species texts of `statements` (equations and named
-/// mixtures) in the order they are first met.
+/// mixtures) in the order they are first met, and every occurrence in
+/// statement order with the index of its text.
 fn first_met<'a>(
     aliases: &HashMap<CompactString, SpeciesId>,
     statements: &[(FileId, &'a Statement)],
-) -> Vec<(FileId, &'a ast::Name)> {
-    let mut seen: rustc_hash::FxHashSet<&str> = rustc_hash::FxHashSet::default();
-    let mut out = Vec::new();
+) -> (Vec<(FileId, &'a ast::Name)>, Vec<Occurrence<'a>>) {
+    // Sized for a library whose reactions name two new species each and
+    // three in all, so that growing them rarely rehashes or copies.
+    let mut seen: HashMap<&str, u32> = HashMap::default();
+    seen.reserve(2 * statements.len());
+    let mut out = Vec::with_capacity(2 * statements.len());
+    let mut occurrences = Vec::with_capacity(3 * statements.len());
     let mut meet = |file: FileId, name: &'a ast::Name| {
-        if seen.insert(name.text.as_str()) {
+        let next = out.len() as u32;
+        let text = *seen.entry(name.text.as_str()).or_insert(next);
+        if text == next {
             out.push((file, name));
         }
+        occurrences.push((name, text));
     };
     for &(file, s) in statements {
         match &s.kind {
@@ -313,7 +340,7 @@ fn first_met<'a>(
             _ => {}
         }
     }
-    out
+    (out, occurrences)
 }
 
 impl<'w> Lowering<'w> {
@@ -329,6 +356,8 @@ impl<'w> Lowering<'w> {
             by_key: Arc::default(),
             by_text: Arc::default(),
             labels: HashMap::default(),
+            ahead: Vec::new(),
+            taken: 0,
         }
     }
 
@@ -592,7 +621,18 @@ impl<'w> Lowering<'w> {
 
     /// Resolve a species as written in an equation or a mixture.
     fn resolve(&mut self, file: FileId, name: &ast::Name) -> Option<SpeciesId> {
-        let resolved = match self.by_text.get(&name.text).copied() {
+        let ahead = self
+            .ahead
+            .get(self.taken)
+            .filter(|(met, _)| std::ptr::eq(*met, name));
+        let known = match ahead {
+            Some(&(_, id)) => {
+                self.taken += 1;
+                Some(id)
+            }
+            None => self.by_text.get(&name.text).copied(),
+        };
+        let resolved = match known {
             Some(r) => r,
             None => {
                 let reading = read_name(&self.aliases, &name.text);
@@ -663,7 +703,7 @@ impl<'w> Lowering<'w> {
             return;
         }
         let aliases = &self.aliases;
-        let parts: Vec<Vec<NameReading>> = if parallel {
+        let parts: Vec<(Vec<NameReading>, Vec<Occurrence>)> = if parallel {
             let (first, second) = statements.split_at(statements.len() / 2);
             std::thread::scope(|scope| {
                 let other = scope.spawn(|| read_names(aliases, second));
@@ -678,16 +718,31 @@ impl<'w> Lowering<'w> {
         };
         // Sized once for every text read (a text met in both halves is
         // counted twice), so that numbering them never rehashes.
-        self.reserve_names(parts.iter().map(Vec::len).sum());
-        for (i, part) in parts.into_iter().enumerate() {
+        self.reserve_names(parts.iter().map(|(texts, _)| texts.len()).sum());
+        self.ahead
+            .reserve(parts.iter().map(|(_, occurrences)| occurrences.len()).sum());
+        for (i, (part, occurrences)) in parts.into_iter().enumerate() {
             // The first part's texts are distinct and none was met before.
             let fresh = i == 0 && self.by_text.is_empty();
-            for r in part {
-                if fresh || !self.by_text.contains_key(&r.name.text) {
-                    self.settle(r.file, r.name, r.reading);
-                }
-            }
+            let ids: Vec<Option<SpeciesId>> = part
+                .into_iter()
+                .map(|r| match self.by_text.get(&r.name.text) {
+                    Some(&id) if !fresh => id,
+                    _ => self.settle(r.file, r.name, r.reading),
+                })
+                .collect();
+            self.take_ahead(&occurrences, &ids);
         }
+    }
+
+    /// Queue `occurrences` for [`Lowering::resolve`], given what their
+    /// texts name.
+    fn take_ahead(&mut self, occurrences: &[Occurrence<'w>], ids: &[Option<SpeciesId>]) {
+        self.ahead.extend(
+            occurrences
+                .iter()
+                .map(|&(name, text)| (name, ids[text as usize])),
+        );
     }
 
     /// Room for `texts` more species texts, so that numbering them never

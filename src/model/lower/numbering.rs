@@ -29,6 +29,8 @@ pub struct Numbering {
     /// For each species the numbering made, in order, the index of its
     /// text in `texts`.
     made: Arc<Vec<u32>>,
+    /// What each text names.
+    ids: Arc<Vec<Option<SpeciesId>>>,
     /// The reading notes it gave, each with the index of its text.
     notes: Arc<Vec<(u32, String)>>,
     /// What every text and every formula key names once numbered.
@@ -36,22 +38,23 @@ pub struct Numbering {
     by_key: Arc<HashMap<FormulaKey, SpeciesId>>,
 }
 
-impl Lowering<'_> {
+impl<'w> Lowering<'w> {
     /// Number the species texts of `statements` as
     /// [`Lowering::settle_names_ahead`] does, reusing the numbering of
     /// `last` when it still holds, and keep the numbering in the library.
     pub(super) fn number_keeping(
         &mut self,
-        statements: &[(FileId, &Statement)],
+        statements: &[(FileId, &'w Statement)],
         parallel: bool,
         last: Option<&Library>,
     ) {
-        let met = first_met(&self.aliases, statements);
+        let (met, occurrences) = first_met(&self.aliases, statements);
         if let Some(last) = last
             && let Some(numbering) = &last.numbering
             && self.still_holds(numbering, &last.species, &met)
         {
             self.renumber(numbering, &last.species, &met);
+            self.take_ahead(&occurrences, &numbering.ids);
             return;
         }
         let declared = self.lib.species.len();
@@ -64,9 +67,10 @@ impl Lowering<'_> {
         self.reserve_names(met.len());
         let mut made = Vec::new();
         let mut notes = Vec::new();
+        let mut ids = Vec::with_capacity(met.len());
         for (i, (&(file, name), reading)) in met.iter().zip(readings).enumerate() {
             let (species, diags) = (self.lib.species.len(), self.diags.len());
-            self.settle(file, name, reading);
+            ids.push(self.settle(file, name, reading));
             if self.lib.species.len() > species {
                 made.push(i as u32);
             }
@@ -74,6 +78,7 @@ impl Lowering<'_> {
                 notes.push((i as u32, note.message.clone()));
             }
         }
+        self.take_ahead(&occurrences, &ids);
         self.lib.numbering = fresh.then(|| Numbering {
             declared,
             aliases,
@@ -84,6 +89,7 @@ impl Lowering<'_> {
                     .collect(),
             ),
             made: Arc::new(made),
+            ids: Arc::new(ids),
             notes: Arc::new(notes),
             by_text: Arc::clone(&self.by_text),
             by_key: Arc::clone(&self.by_key),
