@@ -13,8 +13,8 @@
 //! temperature); inside a compound unit they are rejected with a pointer to
 //! K, because a compound of an offset scale has no single meaning.
 
+use rustc_hash::FxHashMap as HashMap;
 use std::cell::RefCell;
-use std::collections::HashMap;
 use std::ops::Range;
 
 use chumsky::prelude::*;
@@ -84,9 +84,10 @@ const CACHE_CAPACITY: usize = 4096;
 thread_local! {
     /// Results of recent parses: reaction libraries repeat a handful of unit
     /// texts many thousands of times, and building the parser costs more
-    /// than looking a text up.
+    /// than looking a text up. Keyed with a fast hash: the texts are
+    /// short and the lookups many.
     static CACHE: RefCell<HashMap<Box<str>, Result<Unit, UnitError>>> =
-        RefCell::new(HashMap::new());
+        RefCell::new(HashMap::default());
 }
 
 /// Parses a unit expression into its SI factor, offset and dimension.
