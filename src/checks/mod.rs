@@ -143,39 +143,39 @@ pub fn run(ws: &Workspace, lib: &Library, config: &Config) -> Vec<Diagnostic> {
         k: ReactionK::of(lib, reaction),
     });
     prep.mark("K models");
-    // The pair check groups reactions by a key made on every core; the
-    // grouping then runs beside the other checks, whose findings keep the
-    // order they have always had: per reaction, temperatures, mixtures,
-    // pairs, cycles.
+    // The pair check groups reactions by a key made on every core. The
+    // cycle check, the longest, then runs on this thread while the
+    // grouping and the per-reaction, temperature and mixture checks run
+    // on another; the findings keep the order they have always had: per
+    // reaction, temperatures, mixtures, pairs, cycles.
     let keys = on_every_core(&checked, pairs::key);
     let clock = Phases::start();
     std::thread::scope(|scope| {
-        let paired = scope.spawn(|| {
+        let others = scope.spawn(|| {
             let mut found = Vec::new();
+            for c in &checked {
+                rates::check(lib, c, &mut found);
+                if c.reaction.reversible() {
+                    consistency::check(ws, lib, c, config.tolerance, &mut found);
+                }
+            }
+            consistency::temperatures(ws, lib, &checked, &mut found);
+            for m in &lib.mixtures {
+                found.extend(crate::solve::mixture_diagnostics(lib, m));
+            }
             pairs::check(ws, &checked, &keys, config.tolerance, &mut found);
             found
         });
-        for c in &checked {
-            rates::check(lib, c, &mut out);
-            if c.reaction.reversible() {
-                consistency::check(ws, lib, c, config.tolerance, &mut out);
-            }
-        }
-        consistency::temperatures(ws, lib, &checked, &mut out);
-        for m in &lib.mixtures {
-            out.extend(crate::solve::mixture_diagnostics(lib, m));
-        }
-        clock.mark("per-reaction checks");
-        let mut found = Vec::new();
-        cycles::check(ws, lib, &checked, config.tolerance, &mut found);
+        let mut cycles = Vec::new();
+        cycles::check(ws, lib, &checked, config.tolerance, &mut cycles);
         clock.mark("cycles");
-        let pairs = paired
+        let others = others
             .join()
             // Re-raise on this thread, where the callers catch panics.
             .unwrap_or_else(|panic| std::panic::resume_unwind(panic));
-        clock.mark("pairs");
-        out.extend(pairs);
-        out.extend(found);
+        clock.mark("per-reaction, mixture and pair checks");
+        out.extend(others);
+        out.extend(cycles);
     });
     out
 }
