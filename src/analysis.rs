@@ -16,6 +16,8 @@ use rustc_hash::FxHashSet as HashSet;
 pub struct LibraryResult {
     pub top: FileId,
     pub library: Library,
+    /// What its cycle check saw and found, kept by the language server.
+    pub cycles: Option<crate::checks::CycleMemo>,
 }
 
 /// Everything one analysis produced.
@@ -78,37 +80,49 @@ fn analyze_with(
         }
     }
     let mut libraries = Vec::new();
+    // Each library's counterpart in the last analysis (same top file).
+    let mut lasts: Vec<Option<&LibraryResult>> = Vec::new();
     for top in workspace.tops() {
         let files = workspace.closure(top);
         let clock = crate::checks::Phases::start();
+        let path = &workspace.file(top).path;
+        let last = after.flatten().and_then(|a| {
+            a.libraries
+                .iter()
+                .find(|l| a.workspace.file(l.top).path == *path)
+        });
         let (library, diags) = match after {
             None => crate::model::lower::lower(&workspace, &files, config),
-            Some(last) => {
-                let path = &workspace.file(top).path;
-                let last = last.and_then(|a| {
-                    a.libraries
-                        .iter()
-                        .find(|l| a.workspace.file(l.top).path == *path)
-                });
-                crate::model::lower::lower_after(
-                    &workspace,
-                    &files,
-                    config,
-                    last.map(|l| &l.library),
-                )
-            }
+            Some(_) => crate::model::lower::lower_after(
+                &workspace,
+                &files,
+                config,
+                last.map(|l| &l.library),
+            ),
         };
         clock.mark("lowering");
         raw.extend(diags);
-        libraries.push(LibraryResult { top, library });
+        libraries.push(LibraryResult {
+            top,
+            library,
+            cycles: None,
+        });
+        lasts.push(last);
     }
     if !keep_syntax {
         for f in &mut workspace.files {
             f.syntax.statements = Vec::new();
         }
     }
-    for l in &libraries {
-        raw.extend(crate::checks::run(&workspace, &l.library, config));
+    for (l, last) in libraries.iter_mut().zip(lasts) {
+        if after.is_some() {
+            let last = last.and_then(|l| l.cycles.as_ref());
+            let (diags, memo) = crate::checks::run_after(&workspace, &l.library, config, last);
+            raw.extend(diags);
+            l.cycles = memo;
+        } else {
+            raw.extend(crate::checks::run(&workspace, &l.library, config));
+        }
     }
     let clock = crate::checks::Phases::start();
     let diagnostics = finish(&workspace, raw, config);

@@ -5,13 +5,18 @@
 //! [`crate::chem::cycles::CycleFinder`] over sparse reaction vectors, so the
 //! check scales to libraries of 10^5 reactions. All K are compared at one
 //! reference temperature: the one at which the most reactions have a K.
+//!
+//! The language server checks a library again after every edit; it keeps
+//! a [`CycleMemo`] of each check, and the next check resumes at the first
+//! reaction the edit changed, from the finder as it stood before it.
 
 use super::{Checked, k_text, number, temperature, tolerance};
 use crate::chem::cycles::CycleFinder;
 use crate::diagnostic::Diagnostic;
-use crate::model::Library;
+use crate::model::SpeciesId;
 use crate::units::constants::STANDARD_TEMPERATURE;
 use crate::workspace::Workspace;
+use num_rational::Ratio;
 use std::collections::{HashMap, HashSet};
 
 fn reference_temperature(checked: &[&Checked]) -> f64 {
@@ -59,6 +64,7 @@ fn gcd(a: i64, b: i64) -> i64 {
 /// A cycle that does not close: `subject` equals `Σ m · member`, but its
 /// ln K is not the combination of theirs. Indexes are into the reversible
 /// reactions the check looked at.
+#[derive(Clone)]
 struct Failure {
     subject: usize,
     members: Vec<(usize, f64)>,
@@ -277,38 +283,131 @@ fn blame(failures: &[Failure], rel: f64) -> (Vec<Culprit>, Vec<usize>) {
     (culprits, unexplained)
 }
 
+/// What the check adds a reaction with: its net vector and its ln K at the
+/// reference temperature (`None` when it is not added).
+type Input<'a> = (&'a [(SpeciesId, Ratio<i64>)], Option<f64>);
+
+/// What the cycle check of one analysis saw and found, kept by the
+/// language server: the next analysis of an edited library starts the
+/// check again at the first reaction whose vector or ln K differs, from
+/// the finder as it stood before that reaction.
+pub struct CycleMemo {
+    /// The reference temperature and tolerance the check ran with.
+    t: f64,
+    rel: f64,
+    /// Each reversible reaction's net vector (flattened, with the end of
+    /// each in `ends`) and the ln K it was added with (`None` when it was
+    /// not added).
+    nets: Vec<(u32, Ratio<i64>)>,
+    ends: Vec<u32>,
+    values: Vec<Option<f64>>,
+    finder: CycleFinder,
+    /// The failing cycles found, in the order of their subjects.
+    failures: Vec<Failure>,
+}
+
+impl CycleMemo {
+    /// The net vector of reversible reaction `i` as the check saw it.
+    fn net(&self, i: usize) -> &[(u32, Ratio<i64>)] {
+        let start = if i == 0 { 0 } else { self.ends[i - 1] as usize };
+        &self.nets[start..self.ends[i] as usize]
+    }
+}
+
+/// Check every cycle of the reversible reactions of `checked`. With
+/// `memory`, the check starts from the memo of the last analysis where it
+/// still holds, and returns its own.
 pub(super) fn check(
     ws: &Workspace,
-    _lib: &Library,
     checked: &[Checked],
     rel: f64,
+    memory: Option<Option<&CycleMemo>>,
     out: &mut Vec<Diagnostic>,
-) {
+) -> Option<CycleMemo> {
     let reversible: Vec<&Checked> = checked.iter().filter(|c| c.reaction.reversible()).collect();
     if reversible.len() < 3 {
-        return;
+        return None;
     }
     let t = reference_temperature(&reversible);
-    let mut finder = CycleFinder::new();
+    // What each reaction is added with: its net vector and ln K.
+    let inputs: Vec<Input> = reversible
+        .iter()
+        .map(|c| {
+            let net = c.reaction.net();
+            let value = c.k.ln_k_at(t).ok().map(|e| e.ln_k);
+            (net, value.filter(|_| !net.is_empty()))
+        })
+        .collect();
+    let keep = memory.is_some();
+    let last = memory.flatten().filter(|m| m.t == t && m.rel == rel);
+    let mut nets = Vec::new();
+    let mut ends = Vec::new();
+    let mut values = Vec::new();
+    if keep {
+        ends.reserve(reversible.len());
+        values.reserve(reversible.len());
+    }
     let mut ln_k: Vec<f64> = vec![f64::NAN; reversible.len()];
-    let mut failures: Vec<Failure> = Vec::new();
-    let mut v: Vec<(u32, num_rational::Ratio<i64>)> = Vec::new();
-    for (i, c) in reversible.iter().enumerate() {
-        let Ok(estimate) = c.k.ln_k_at(t) else {
+    let mut v: Vec<(u32, Ratio<i64>)> = Vec::new();
+    // The reactions the last check saw alike: its finder and failures
+    // stand for them, once the occurrences of their species are counted.
+    let mut same = 0;
+    let (mut finder, mut failures) = match last {
+        Some(memo) => {
+            for (i, &(net, value)) in inputs.iter().enumerate() {
+                let alike = i < memo.values.len()
+                    && memo.values[i].map(f64::to_bits) == value.map(f64::to_bits)
+                    && memo.net(i).len() == net.len()
+                    && memo
+                        .net(i)
+                        .iter()
+                        .zip(net)
+                        .all(|(a, b)| a.0 == b.0.0 && a.1 == b.1);
+                if !alike {
+                    break;
+                }
+                same = i + 1;
+            }
+            let mut finder = memo.finder.before(same);
+            for (i, &(net, value)) in inputs.iter().take(same).enumerate() {
+                if let Some(value) = value {
+                    v.clear();
+                    v.extend(net.iter().map(|&(s, x)| (s.0, x)));
+                    finder.count(&v);
+                    ln_k[i] = value;
+                }
+            }
+            let failures = memo
+                .failures
+                .iter()
+                .take_while(|f| f.subject < same)
+                .cloned()
+                .collect();
+            (finder, failures)
+        }
+        None => (CycleFinder::new(), Vec::new()),
+    };
+    for (i, &(net, value)) in inputs.iter().enumerate() {
+        if keep {
+            nets.extend(net.iter().map(|&(s, x)| (s.0, x)));
+            ends.push(nets.len() as u32);
+            values.push(value);
+        }
+        if i < same {
+            continue;
+        }
+        let Some(value) = value else {
             continue;
         };
         v.clear();
-        v.extend(c.reaction.net().iter().map(|&(s, x)| (s.0, x)));
-        if v.is_empty() {
-            continue;
-        }
-        ln_k[i] = estimate.ln_k;
-        let Some(dependence) = finder.add_valued(i, &v, estimate.ln_k) else {
+        v.extend(net.iter().map(|&(s, x)| (s.0, x)));
+        ln_k[i] = value;
+        let Some(dependence) = finder.add_valued(i, &v, value) else {
             continue;
         };
         if dependence.is_trivial()
             || !dependence.predicted.is_finite()
-            || (estimate.ln_k - dependence.predicted).abs() <= tolerance(dependence.predicted, rel)
+            || (value - dependence.predicted).abs() <= tolerance(dependence.predicted, rel)
         {
             continue;
         }
@@ -321,13 +420,13 @@ pub(super) fn check(
             continue;
         }
         let predicted: f64 = members.iter().map(|(j, m)| m * ln_k[*j]).sum();
-        if (estimate.ln_k - predicted).abs() <= tolerance(predicted, rel) {
+        if (value - predicted).abs() <= tolerance(predicted, rel) {
             continue;
         }
         failures.push(Failure {
             subject: i,
             members,
-            ln_k: estimate.ln_k,
+            ln_k: value,
             predicted,
         });
     }
@@ -344,6 +443,15 @@ pub(super) fn check(
         };
         out.push(report(ws, &reversible, &ln_k, t, &failures, &alone));
     }
+    keep.then_some(CycleMemo {
+        t,
+        rel,
+        nets,
+        ends,
+        values,
+        finder,
+        failures,
+    })
 }
 
 /// Most other failing cycles listed under one finding.

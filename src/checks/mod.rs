@@ -129,8 +129,31 @@ fn memory_mb(field: &str) -> u64 {
         .map_or(0, |kb| kb / 1024)
 }
 
+pub use cycles::CycleMemo;
+
 /// Run every library-wide check.
 pub fn run(ws: &Workspace, lib: &Library, config: &Config) -> Vec<Diagnostic> {
+    run_with(ws, lib, config, None).0
+}
+
+/// [`run`] for the language server, which checks the same library again
+/// after every edit: the cycle check keeps its memo, and starts from
+/// `last` (the memo of the last analysis) where that still holds.
+pub fn run_after(
+    ws: &Workspace,
+    lib: &Library,
+    config: &Config,
+    last: Option<&CycleMemo>,
+) -> (Vec<Diagnostic>, Option<CycleMemo>) {
+    run_with(ws, lib, config, Some(last))
+}
+
+fn run_with(
+    ws: &Workspace,
+    lib: &Library,
+    config: &Config,
+    memory: Option<Option<&CycleMemo>>,
+) -> (Vec<Diagnostic>, Option<CycleMemo>) {
     let mut out = Vec::new();
     let prep = Phases::start();
     let ready: Vec<&crate::model::Reaction> = lib
@@ -150,7 +173,7 @@ pub fn run(ws: &Workspace, lib: &Library, config: &Config) -> Vec<Diagnostic> {
     // reaction, temperatures, mixtures, pairs, cycles.
     let keys = on_every_core(&checked, pairs::key);
     let clock = Phases::start();
-    std::thread::scope(|scope| {
+    let memo = std::thread::scope(|scope| {
         let others = scope.spawn(|| {
             let mut found = Vec::new();
             for c in &checked {
@@ -167,7 +190,7 @@ pub fn run(ws: &Workspace, lib: &Library, config: &Config) -> Vec<Diagnostic> {
             found
         });
         let mut cycles = Vec::new();
-        cycles::check(ws, lib, &checked, config.tolerance, &mut cycles);
+        let memo = cycles::check(ws, &checked, config.tolerance, memory, &mut cycles);
         clock.mark("cycles");
         let others = others
             .join()
@@ -176,8 +199,9 @@ pub fn run(ws: &Workspace, lib: &Library, config: &Config) -> Vec<Diagnostic> {
         clock.mark("per-reaction, mixture and pair checks");
         out.extend(others);
         out.extend(cycles);
+        memo
     });
-    out
+    (out, memo)
 }
 
 /// `f` over `items`, in order, split across the cores.

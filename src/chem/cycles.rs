@@ -143,6 +143,7 @@ fn gcd_i64(a: i64, b: i64) -> u64 {
     a
 }
 
+#[derive(Clone)]
 struct BasisVector {
     pivot: u32,
     /// Species coefficients, sorted by id; the pivot's coefficient is 1.
@@ -312,13 +313,28 @@ impl CycleFinder {
             .collect()
     }
 
-    fn reduce_and_insert(
-        &mut self,
-        scratch: &mut Scratch,
-        reaction: usize,
-        vector: &[(u32, Ratio<i64>)],
-        value: f64,
-    ) -> Option<Dependence> {
+    /// The finder as it stood before reaction `reaction` was added, when
+    /// reactions were added in increasing order: the basis vectors of the
+    /// earlier reactions. Occurrence counts are not kept; the caller
+    /// gives them back with [`CycleFinder::count`] for each earlier
+    /// reaction it had added, so that the next pivots are chosen as before.
+    pub fn before(&self, reaction: usize) -> CycleFinder {
+        let kept = self.basis.partition_point(|b| b.reaction < reaction);
+        let basis: Vec<BasisVector> = self.basis[..kept].to_vec();
+        let mut pivot_of = vec![NONE; self.pivot_of.len()];
+        for (k, b) in basis.iter().enumerate() {
+            pivot_of[b.pivot as usize] = k as u32;
+        }
+        CycleFinder {
+            basis,
+            pivot_of,
+            occurrences: Vec::new(),
+            scratch: Scratch::default(),
+        }
+    }
+
+    /// Count the species of `vector` as adding it does, without adding it.
+    pub fn count(&mut self, vector: &[(u32, Ratio<i64>)]) {
         for (s, c) in vector {
             if c.is_zero() {
                 continue;
@@ -328,7 +344,21 @@ impl CycleFinder {
                 self.occurrences.resize(i + 1, 0);
             }
             self.occurrences[i] += 1;
-            scratch.add_to(*s, &Q::from_ratio(c));
+        }
+    }
+
+    fn reduce_and_insert(
+        &mut self,
+        scratch: &mut Scratch,
+        reaction: usize,
+        vector: &[(u32, Ratio<i64>)],
+        value: f64,
+    ) -> Option<Dependence> {
+        self.count(vector);
+        for (s, c) in vector {
+            if !c.is_zero() {
+                scratch.add_to(*s, &Q::from_ratio(c));
+            }
         }
         scratch.heap.clear();
         for &s in &scratch.touched {
@@ -784,6 +814,30 @@ mod tests {
         // Debug builds on a shared two-core machine: generous, but catches
         // quadratic blow-up.
         assert!(elapsed.as_secs_f64() < 30.0, "took {elapsed:?}");
+    }
+
+    /// A finder taken back to before a reaction and given the counts of
+    /// the earlier ones answers every later reaction as the finder that
+    /// never stopped.
+    #[test]
+    fn resuming_before_a_reaction_answers_as_an_unbroken_run() {
+        let (all, _) = library(3_000, 7);
+        let mut whole = CycleFinder::new();
+        let answers: Vec<_> = all
+            .iter()
+            .enumerate()
+            .map(|(i, v)| whole.add(i, v))
+            .collect();
+        for from in [0, 1, 1_000, 2_999, 3_000] {
+            let mut resumed = whole.before(from);
+            for v in &all[..from] {
+                resumed.count(v);
+            }
+            for (i, v) in all.iter().enumerate().skip(from) {
+                assert_eq!(resumed.add(i, v), answers[i], "reaction {i} after {from}");
+            }
+            assert_eq!(resumed.rank(), whole.rank());
+        }
     }
 
     #[test]
