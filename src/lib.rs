@@ -18,6 +18,7 @@ pub mod equilibrium;
 pub mod format;
 pub mod lsp;
 pub mod model;
+pub(crate) mod parallel;
 pub mod reaction_k;
 pub mod report;
 pub mod rules;

@@ -90,27 +90,33 @@ pub fn k_text(ln_k: f64) -> String {
 /// large libraries.
 pub struct Phases {
     on: bool,
-    at: std::cell::Cell<std::time::Instant>,
+    /// When the last phase ended; behind a lock, so that a phase may end
+    /// on any of the threads an analysis runs on.
+    at: std::sync::Mutex<std::time::Instant>,
 }
 
 impl Phases {
     pub fn start() -> Phases {
         Phases {
             on: std::env::var_os("STOIK_PROFILE").is_some(),
-            at: std::cell::Cell::new(std::time::Instant::now()),
+            at: std::sync::Mutex::new(std::time::Instant::now()),
         }
     }
 
     pub fn mark(&self, what: &str) {
         if self.on {
             let now = std::time::Instant::now();
+            let mut at = self
+                .at
+                .lock()
+                .unwrap_or_else(std::sync::PoisonError::into_inner);
             eprintln!(
                 "profile: {what}: {:.3} s, resident {} MB (peak {} MB)",
-                (now - self.at.get()).as_secs_f64(),
+                (now - *at).as_secs_f64(),
                 memory_mb("VmRSS:"),
                 memory_mb("VmHWM:")
             );
-            self.at.set(now);
+            *at = now;
         }
     }
 }
@@ -173,59 +179,44 @@ fn run_with(
     // reaction, temperatures, mixtures, pairs, cycles.
     let keys = on_every_core(&checked, pairs::key);
     let clock = Phases::start();
-    let memo = std::thread::scope(|scope| {
-        let others = scope.spawn(|| {
-            let mut found = Vec::new();
-            for c in &checked {
-                rates::check(lib, c, &mut found);
-                if c.reaction.reversible() {
-                    consistency::check(ws, lib, c, config.tolerance, &mut found);
-                }
+    let others = || {
+        let mut found = Vec::new();
+        for c in &checked {
+            rates::check(lib, c, &mut found);
+            if c.reaction.reversible() {
+                consistency::check(ws, lib, c, config.tolerance, &mut found);
             }
-            consistency::temperatures(ws, lib, &checked, &mut found);
-            for m in &lib.mixtures {
-                found.extend(crate::solve::mixture_diagnostics(lib, m));
-            }
-            pairs::check(ws, &checked, &keys, config.tolerance, &mut found);
-            found
-        });
-        let mut cycles = Vec::new();
-        let memo = cycles::check(ws, &checked, config.tolerance, memory, &mut cycles);
+        }
+        consistency::temperatures(ws, lib, &checked, &mut found);
+        for m in &lib.mixtures {
+            found.extend(crate::solve::mixture_diagnostics(lib, m));
+        }
+        pairs::check(ws, &checked, &keys, config.tolerance, &mut found);
+        found
+    };
+    let cycles = || {
+        let mut found = Vec::new();
+        let memo = cycles::check(ws, &checked, config.tolerance, memory, &mut found);
         clock.mark("cycles");
-        let others = others
-            .join()
-            // Re-raise on this thread, where the callers catch panics.
-            .unwrap_or_else(|panic| std::panic::resume_unwind(panic));
-        clock.mark("per-reaction, mixture and pair checks");
-        out.extend(others);
-        out.extend(cycles);
-        memo
-    });
+        (found, memo)
+    };
+    let ((cycles, memo), others) = crate::parallel::both(cycles, others);
+    clock.mark("per-reaction, mixture and pair checks");
+    out.extend(others);
+    out.extend(cycles);
     (out, memo)
 }
 
 /// `f` over `items`, in order, split across the cores.
-fn on_every_core<'a, T: Sync, R: Send>(items: &'a [T], f: impl Fn(&'a T) -> R + Sync) -> Vec<R> {
-    let workers = std::thread::available_parallelism().map_or(1, std::num::NonZeroUsize::get);
-    if workers < 2 || items.len() < 4096 {
+fn on_every_core<'a, T: Sync, R: Send>(
+    items: &'a [T],
+    f: impl Fn(&'a T) -> R + Sync + Send,
+) -> Vec<R> {
+    let cores = crate::parallel::cores();
+    if cores < 2 || items.len() < 4096 {
         return items.iter().map(f).collect();
     }
-    let chunk = items.len().div_ceil(workers);
-    std::thread::scope(|scope| {
-        let f = &f;
-        let handles: Vec<_> = items
-            .chunks(chunk)
-            .map(|part| scope.spawn(move || part.iter().map(f).collect::<Vec<R>>()))
-            .collect();
-        let mut out = Vec::with_capacity(items.len());
-        for h in handles {
-            match h.join() {
-                Ok(part) => out.extend(part),
-                Err(panic) => std::panic::resume_unwind(panic),
-            }
-        }
-        out
-    })
+    crate::parallel::map_in_order(items, items.len().div_ceil(cores), f)
 }
 
 #[cfg(test)]

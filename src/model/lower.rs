@@ -133,13 +133,9 @@ fn lower_with(
     // read meanwhile on another core (large libraries); the terms join it
     // afterwards, when the balance is checked on every core.
     let clock = crate::checks::Phases::start();
-    let cores = std::thread::available_parallelism().map_or(1, std::num::NonZeroUsize::get);
-    let aside = cores > 1 && count >= PARALLEL_REACTIONS;
+    let aside = crate::parallel::cores() > 1 && count >= PARALLEL_REACTIONS;
     let (ws, config, readers) = (l.ws, l.config, &readers);
-    let (heads, (shells, shell_diags)) = std::thread::scope(|scope| {
-        let shells = aside.then(|| {
-            scope.spawn(move || Lowering::reaction_shells(ws, config, files, readers, count))
-        });
+    let names_and_heads = |l: &mut Lowering<'_>| {
         l.settle_names_ahead(files, aside, memory);
         clock.mark("species names");
         let mut heads = Vec::with_capacity(count);
@@ -162,14 +158,14 @@ fn lower_with(
         debug_assert_eq!(l.taken, l.ahead.len());
         l.ahead = Vec::new();
         clock.mark("reaction heads");
-        let shells = match shells {
-            Some(handle) => handle
-                .join()
-                .unwrap_or_else(|panic| std::panic::resume_unwind(panic)),
-            None => Lowering::reaction_shells(ws, config, files, readers, count),
-        };
-        (heads, shells)
-    });
+        heads
+    };
+    let shells = || Lowering::reaction_shells(ws, config, files, readers, count);
+    let (heads, (shells, shell_diags)) = if aside {
+        crate::parallel::both(|| names_and_heads(&mut l), shells)
+    } else {
+        (names_and_heads(&mut l), shells())
+    };
     l.diags.extend(shell_diags);
     l.finish_reactions(shells, heads, aside);
     clock.mark("reaction bodies");
@@ -378,31 +374,21 @@ impl<'w> Lowering<'w> {
         };
         let second_heads = heads.split_off(split);
         let species = &self.lib.species;
-        let diags = &mut self.diags;
         let (first, second) = shells.split_at_mut(split);
-        std::thread::scope(|scope| {
-            let other = (!second_heads.is_empty()).then(|| {
-                scope.spawn(move || {
-                    let mut worker = Lowering::worker(ws, config);
-                    for (r, head) in second.iter_mut().zip(second_heads) {
-                        worker.finish_reaction(r, head, species);
-                    }
-                    worker.diags
-                })
-            });
+        let finish = |part: &mut [Reaction], heads: Vec<ReactionHead>| {
             let mut worker = Lowering::worker(ws, config);
-            for (r, head) in first.iter_mut().zip(heads) {
+            for (r, head) in part.iter_mut().zip(heads) {
                 worker.finish_reaction(r, head, species);
             }
-            diags.extend(worker.diags);
-            if let Some(handle) = other {
-                match handle.join() {
-                    Ok(more) => diags.extend(more),
-                    // Re-raise on this thread, where the callers catch panics.
-                    Err(panic) => std::panic::resume_unwind(panic),
-                }
-            }
-        });
+            worker.diags
+        };
+        let (mine, more) = if second_heads.is_empty() {
+            (finish(first, heads), Vec::new())
+        } else {
+            crate::parallel::both(|| finish(first, heads), || finish(second, second_heads))
+        };
+        self.diags.extend(mine);
+        self.diags.extend(more);
         self.lib.reactions = shells;
     }
 

@@ -63,14 +63,7 @@ pub fn reparse(old_text: &str, old: &SourceFile, text: &str) -> SourceFile {
         (head, parse_range(text, start, end, first_line))
     };
     let ((head, middle), tail) = if after.statements.len() >= PARALLEL_COPY {
-        std::thread::scope(|scope| {
-            let tail = scope.spawn(copy_after);
-            let head = parse_between();
-            let tail = tail
-                .join()
-                .unwrap_or_else(|panic| std::panic::resume_unwind(panic));
-            (head, tail)
-        })
+        crate::parallel::both(parse_between, copy_after)
     } else {
         (parse_between(), copy_after())
     };

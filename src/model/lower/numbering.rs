@@ -161,16 +161,9 @@ fn read_in_halves(
         return read(met);
     }
     let (first, second) = met.split_at(met.len() / 2);
-    std::thread::scope(|scope| {
-        let other = scope.spawn(|| read(second));
-        let mut mine = read(first);
-        match other.join() {
-            Ok(more) => mine.extend(more),
-            // Re-raise on this thread, where the callers catch panics.
-            Err(panic) => std::panic::resume_unwind(panic),
-        }
-        mine
-    })
+    let (mut mine, more) = crate::parallel::both(|| read(first), || read(second));
+    mine.extend(more);
+    mine
 }
 
 #[cfg(test)]
