@@ -23,7 +23,7 @@ pub fn activity_name(s: &Species) -> String {
                 .unwrap_or(&s.name)
                 .to_string()
         }
-        None => s.name.clone(),
+        None => s.name.to_string(),
     }
 }
 

@@ -179,7 +179,7 @@ fn species_items(
     let mut seen = std::collections::HashSet::new();
     if let Some(lib) = snap.library().map(|l| &l.library) {
         for s in &lib.species {
-            let label = s.alias.clone().unwrap_or_else(|| s.name.clone());
+            let label = s.alias.clone().unwrap_or_else(|| s.name.to_string());
             if label.starts_with(word) && seen.insert(label.clone()) {
                 let kind = if s.alias.is_some() {
                     lsp::CompletionItemKind::VARIABLE

@@ -228,7 +228,7 @@ enum Reading {
     Formula {
         formula: crate::chem::formula::Formula,
         key: FormulaKey,
-        name: String,
+        name: CompactString,
     },
     /// Neither an alias nor a formula: reported at every occurrence.
     Unresolved,
@@ -259,7 +259,7 @@ fn read_name(aliases: &HashMap<CompactString, SpeciesId>, text: &str) -> Reading
         Ok(formula) => Reading::Formula {
             key: formula_key(&formula),
             formula,
-            name: text.to_owned(),
+            name: text.into(),
         },
         Err(_) => Reading::Unresolved,
     }
@@ -515,7 +515,7 @@ impl<'w> Lowering<'w> {
                 return;
             }
             let id = self.new_species(
-                alias.text.as_str().to_owned(),
+                alias.text.clone(),
                 Some(alias.text.as_str().to_owned()),
                 parsed,
                 loc,
@@ -545,8 +545,7 @@ impl<'w> Lowering<'w> {
                     prev
                 }
                 None => {
-                    let id =
-                        self.new_species(formula_name.text.as_str().to_owned(), None, parsed, loc);
+                    let id = self.new_species(formula_name.text.clone(), None, parsed, loc);
                     self.lib.species[id.0 as usize].declared = Some(loc);
                     Arc::make_mut(&mut self.by_key).insert(key, id);
                     id
@@ -588,7 +587,7 @@ impl<'w> Lowering<'w> {
 
     fn new_species(
         &mut self,
-        name: String,
+        name: CompactString,
         alias: Option<String>,
         formula: crate::chem::formula::Formula,
         loc: Loc,

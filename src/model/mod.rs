@@ -78,8 +78,9 @@ impl SpeciesData {
 /// One species: a formula in a phase, or an alias for one.
 #[derive(Clone, Debug)]
 pub struct Species {
-    /// The alias, or the formula as first written.
-    pub name: String,
+    /// The alias, or the formula as first written; kept inline when short
+    /// (most are), so that copying a species costs no allocation for it.
+    pub name: compact_str::CompactString,
     pub alias: Option<String>,
     pub formula: Formula,
     /// Where the species was declared, if it was.
