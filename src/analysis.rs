@@ -16,8 +16,8 @@ use rustc_hash::FxHashSet as HashSet;
 pub struct LibraryResult {
     pub top: FileId,
     pub library: Library,
-    /// What its cycle check saw and found, kept by the language server.
-    pub cycles: Option<crate::checks::CycleMemo>,
+    /// What its checks saw and found, kept by the language server.
+    pub checks: Option<crate::checks::ChecksMemo>,
 }
 
 /// Everything one analysis produced.
@@ -105,7 +105,7 @@ fn analyze_with(
         libraries.push(LibraryResult {
             top,
             library,
-            cycles: None,
+            checks: None,
         });
         lasts.push(last);
     }
@@ -116,10 +116,10 @@ fn analyze_with(
     }
     for (l, last) in libraries.iter_mut().zip(lasts) {
         if after.is_some() {
-            let last = last.and_then(|l| l.cycles.as_ref());
+            let last = last.and_then(|l| l.checks.as_ref());
             let (diags, memo) = crate::checks::run_after(&workspace, &l.library, config, last);
             raw.extend(diags);
-            l.cycles = memo;
+            l.checks = Some(memo);
         } else {
             raw.extend(crate::checks::run(&workspace, &l.library, config));
         }

@@ -85,6 +85,10 @@ fn cut(text: &str, at: usize) -> usize {
 }
 
 proptest! {
+    // More cases than the default: an edit that changes what a later
+    // analysis may reuse is a small share of random edits.
+    #![proptest_config(ProptestConfig::with_cases(1024))]
+
     /// An analysis that reuses the last one sees exactly what a fresh
     /// analysis of the same text sees, for any edit, and again after a
     /// second edit that reuses the first.

@@ -10,7 +10,7 @@
 //! a [`CycleMemo`] of each check, and the next check resumes at the first
 //! reaction the edit changed, from the finder as it stood before it.
 
-use super::{Checked, k_text, number, temperature, tolerance};
+use super::{Checked, Nets, k_text, number, temperature, tolerance};
 use crate::chem::cycles::CycleFinder;
 use crate::diagnostic::Diagnostic;
 use crate::model::SpeciesId;
@@ -295,23 +295,13 @@ pub struct CycleMemo {
     /// The reference temperature and tolerance the check ran with.
     t: f64,
     rel: f64,
-    /// Each reversible reaction's net vector (flattened, with the end of
-    /// each in `ends`) and the ln K it was added with (`None` when it was
-    /// not added).
-    nets: Vec<(u32, Ratio<i64>)>,
-    ends: Vec<u32>,
+    /// Each reversible reaction's net vector and the ln K it was added
+    /// with (`None` when it was not added).
+    nets: Nets,
     values: Vec<Option<f64>>,
     finder: CycleFinder,
     /// The failing cycles found, in the order of their subjects.
     failures: Vec<Failure>,
-}
-
-impl CycleMemo {
-    /// The net vector of reversible reaction `i` as the check saw it.
-    fn net(&self, i: usize) -> &[(u32, Ratio<i64>)] {
-        let start = if i == 0 { 0 } else { self.ends[i - 1] as usize };
-        &self.nets[start..self.ends[i] as usize]
-    }
 }
 
 /// Check every cycle of the reversible reactions of `checked`. With
@@ -340,11 +330,10 @@ pub(super) fn check(
         .collect();
     let keep = memory.is_some();
     let last = memory.flatten().filter(|m| m.t == t && m.rel == rel);
-    let mut nets = Vec::new();
-    let mut ends = Vec::new();
+    let mut nets = Nets::default();
     let mut values = Vec::new();
     if keep {
-        ends.reserve(reversible.len());
+        nets = Nets::with_capacity(reversible.len());
         values.reserve(reversible.len());
     }
     let mut ln_k: Vec<f64> = vec![f64::NAN; reversible.len()];
@@ -357,12 +346,7 @@ pub(super) fn check(
             for (i, &(net, value)) in inputs.iter().enumerate() {
                 let alike = i < memo.values.len()
                     && memo.values[i].map(f64::to_bits) == value.map(f64::to_bits)
-                    && memo.net(i).len() == net.len()
-                    && memo
-                        .net(i)
-                        .iter()
-                        .zip(net)
-                        .all(|(a, b)| a.0 == b.0.0 && a.1 == b.1);
+                    && memo.nets.same(i, net);
                 if !alike {
                     break;
                 }
@@ -389,8 +373,7 @@ pub(super) fn check(
     };
     for (i, &(net, value)) in inputs.iter().enumerate() {
         if keep {
-            nets.extend(net.iter().map(|&(s, x)| (s.0, x)));
-            ends.push(nets.len() as u32);
+            nets.push(net);
             values.push(value);
         }
         if i < same {
@@ -447,7 +430,6 @@ pub(super) fn check(
         t,
         rel,
         nets,
-        ends,
         values,
         finder,
         failures,

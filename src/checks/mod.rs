@@ -11,11 +11,14 @@ mod cycles;
 mod pairs;
 mod rates;
 
+use crate::chem::cycles::CanonicalKey;
 use crate::config::Config;
 use crate::diagnostic::Diagnostic;
-use crate::model::Library;
+use crate::model::{Library, SpeciesId};
 use crate::reaction_k::ReactionK;
 use crate::workspace::Workspace;
+use num_rational::Ratio;
+use std::sync::Arc;
 
 /// One reaction prepared for checking.
 pub(crate) struct Checked<'l> {
@@ -137,29 +140,85 @@ fn memory_mb(field: &str) -> u64 {
 
 pub use cycles::CycleMemo;
 
+/// The net vectors of reactions as a check saw them, flattened into one
+/// list, so that the next check of an edited library tells cheaply which
+/// reactions are unchanged.
+#[derive(Default)]
+pub(crate) struct Nets {
+    entries: Vec<(u32, Ratio<i64>)>,
+    /// Where each reaction's entries end.
+    ends: Vec<u32>,
+}
+
+impl Nets {
+    fn with_capacity(reactions: usize) -> Nets {
+        Nets {
+            entries: Vec::with_capacity(4 * reactions),
+            ends: Vec::with_capacity(reactions),
+        }
+    }
+
+    fn push(&mut self, net: &[(SpeciesId, Ratio<i64>)]) {
+        self.entries.extend(net.iter().map(|&(s, x)| (s.0, x)));
+        self.ends.push(self.entries.len() as u32);
+    }
+
+    fn len(&self) -> usize {
+        self.ends.len()
+    }
+
+    /// True when reaction `i` was seen with exactly `net`.
+    fn same(&self, i: usize, net: &[(SpeciesId, Ratio<i64>)]) -> bool {
+        let Some(&end) = self.ends.get(i) else {
+            return false;
+        };
+        let start = if i == 0 { 0 } else { self.ends[i - 1] as usize };
+        let seen = &self.entries[start..end as usize];
+        seen.len() == net.len()
+            && seen
+                .iter()
+                .zip(net)
+                .all(|(a, b)| a.0 == b.0.0 && a.1 == b.1)
+    }
+}
+
+/// What the checks of one analysis keep for the next, in the language
+/// server: the pair keys of the reactions checked, with their net vectors,
+/// and the cycle check's memo.
+#[derive(Default)]
+pub struct ChecksMemo {
+    nets: Arc<Nets>,
+    keys: Arc<Vec<Option<CanonicalKey>>>,
+    cycles: Option<CycleMemo>,
+}
+
 /// Run every library-wide check.
 pub fn run(ws: &Workspace, lib: &Library, config: &Config) -> Vec<Diagnostic> {
     run_with(ws, lib, config, None).0
 }
 
 /// [`run`] for the language server, which checks the same library again
-/// after every edit: the cycle check keeps its memo, and starts from
-/// `last` (the memo of the last analysis) where that still holds.
+/// after every edit: the checks keep a memo, and start from `last` (the
+/// memo of the last analysis) where that still holds: the pair keys when
+/// no reaction's net vector changed, the cycle check from the first
+/// reaction that changed.
 pub fn run_after(
     ws: &Workspace,
     lib: &Library,
     config: &Config,
-    last: Option<&CycleMemo>,
-) -> (Vec<Diagnostic>, Option<CycleMemo>) {
-    run_with(ws, lib, config, Some(last))
+    last: Option<&ChecksMemo>,
+) -> (Vec<Diagnostic>, ChecksMemo) {
+    let (out, memo) = run_with(ws, lib, config, Some(last));
+    // A run with memory always returns its memo.
+    (out, memo.unwrap_or_default())
 }
 
 fn run_with(
     ws: &Workspace,
     lib: &Library,
     config: &Config,
-    memory: Option<Option<&CycleMemo>>,
-) -> (Vec<Diagnostic>, Option<CycleMemo>) {
+    memory: Option<Option<&ChecksMemo>>,
+) -> (Vec<Diagnostic>, Option<ChecksMemo>) {
     let mut out = Vec::new();
     let prep = Phases::start();
     let ready: Vec<&crate::model::Reaction> = lib
@@ -177,7 +236,31 @@ fn run_with(
     // grouping and the per-reaction, temperature and mixture checks run
     // on another; the findings keep the order they have always had: per
     // reaction, temperatures, mixtures, pairs, cycles.
-    let keys = on_every_core(&checked, pairs::key);
+    let last = memory.flatten();
+    let unchanged = last.filter(|m| {
+        m.nets.len() == checked.len()
+            && checked
+                .iter()
+                .enumerate()
+                .all(|(i, c)| m.nets.same(i, c.reaction.net()))
+    });
+    let (nets, keys) = match (memory, unchanged) {
+        (_, Some(m)) => (Arc::clone(&m.nets), Arc::clone(&m.keys)),
+        (None, None) => (
+            Arc::default(),
+            Arc::new(on_every_core(&checked, pairs::key)),
+        ),
+        (Some(_), None) => {
+            let mut nets = Nets::with_capacity(checked.len());
+            for c in &checked {
+                nets.push(c.reaction.net());
+            }
+            (
+                Arc::new(nets),
+                Arc::new(on_every_core(&checked, pairs::key)),
+            )
+        }
+    };
     let clock = Phases::start();
     let others = || {
         let mut found = Vec::new();
@@ -196,7 +279,13 @@ fn run_with(
     };
     let cycles = || {
         let mut found = Vec::new();
-        let memo = cycles::check(ws, &checked, config.tolerance, memory, &mut found);
+        let memo = cycles::check(
+            ws,
+            &checked,
+            config.tolerance,
+            memory.map(|last| last.and_then(|m| m.cycles.as_ref())),
+            &mut found,
+        );
         clock.mark("cycles");
         (found, memo)
     };
@@ -204,6 +293,11 @@ fn run_with(
     clock.mark("per-reaction, mixture and pair checks");
     out.extend(others);
     out.extend(cycles);
+    let memo = memory.map(|_| ChecksMemo {
+        nets,
+        keys,
+        cycles: memo,
+    });
     (out, memo)
 }
 
