@@ -70,3 +70,18 @@ fn a_balanced_redox_equation_is_balanced_on_both_paths() {
     assert!(residuals(&terms).is_balanced());
     assert_eq!(balanced_small(&terms), Some(true));
 }
+
+#[test]
+fn a_species_of_many_elements_is_balanced_on_both_paths() {
+    // 26 elements in one formula: more than the integer path keeps, so the
+    // general path answers.
+    let f = parse_formula("HLiBeBCNOFNaMgAlSiPSClKCaScTiVCrMnFeCoNiCu").expect("valid");
+    let o2 = parse_formula("O2").expect("valid");
+    let r = |n: i64| Ratio::from_integer(n);
+    let same = vec![(r(-1), &f), (r(1), &f)];
+    assert!(residuals(&same).is_balanced());
+    assert_eq!(balanced_small(&same), Some(true));
+    let off = vec![(r(-1), &f), (r(1), &f), (r(1), &o2)];
+    assert!(!residuals(&off).is_balanced());
+    assert_eq!(balanced_small(&off), Some(false));
+}

@@ -123,9 +123,14 @@ pub fn balanced_small(terms: &[(Ratio<i64>, &Formula)]) -> Option<bool> {
 
 /// [`balanced_small`] when every coefficient and count is an integer (the
 /// usual case): plain `i128` sums, no rationals. `None` when a value is
-/// fractional or a sum overflows.
+/// fractional, a sum overflows or the reaction names more elements than
+/// this path keeps (the general path then answers).
 fn balanced_integers(terms: &[(Ratio<i64>, &Formula)]) -> Option<bool> {
-    let mut net: [i128; 128] = [0; 128];
+    // The net amount of each element met, in a short list: a reaction names
+    // a handful of elements, and a table of every element cost more to
+    // clear and scan than the whole sum.
+    let mut net: [(u8, i128); 24] = [(0, 0); 24];
+    let mut met = 0;
     let mut charge: i128 = 0;
     for (coefficient, formula) in terms {
         if !in_balance(formula) || coefficient.is_zero() {
@@ -139,12 +144,18 @@ fn balanced_integers(terms: &[(Ratio<i64>, &Formula)]) -> Option<bool> {
             if *n.denom() != 1 {
                 return None;
             }
-            let slot = net.get_mut(usize::from(*z))?;
-            *slot = slot.checked_add(c.checked_mul(i128::from(*n.numer()))?)?;
+            let add = c.checked_mul(i128::from(*n.numer()))?;
+            match net[..met].iter_mut().find(|(e, _)| e == z) {
+                Some((_, total)) => *total = total.checked_add(add)?,
+                None => {
+                    *net.get_mut(met)? = (*z, add);
+                    met += 1;
+                }
+            }
         }
         charge = charge.checked_add(c.checked_mul(i128::from(formula.charge))?)?;
     }
-    Some(charge == 0 && net.iter().all(|total| *total == 0))
+    Some(charge == 0 && net[..met].iter().all(|(_, total)| *total == 0))
 }
 
 /// Element and charge totals for signed terms: a negative coefficient puts
