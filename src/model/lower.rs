@@ -596,7 +596,7 @@ impl<'w> Lowering<'w> {
         self.lib.species.push(Species {
             name,
             alias,
-            formula,
+            formula: Arc::new(formula),
             declared: None,
             first_use: loc,
             data: None,
@@ -1251,7 +1251,7 @@ impl<'w> Lowering<'w> {
         let species: Vec<&crate::chem::formula::Formula> = r
             .terms
             .iter()
-            .map(|t| &all[t.species.0 as usize].formula)
+            .map(|t| &*all[t.species.0 as usize].formula)
             .collect();
         let third = |side: Side| {
             r.terms

@@ -82,7 +82,9 @@ pub struct Species {
     /// (most are), so that copying a species costs no allocation for it.
     pub name: compact_str::CompactString,
     pub alias: Option<String>,
-    pub formula: Formula,
+    /// Shared, so that copying a species (as the language server does when
+    /// it reuses the last numbering) copies no composition.
+    pub formula: std::sync::Arc<Formula>,
     /// Where the species was declared, if it was.
     pub declared: Option<Loc>,
     /// Where it was first met.
