@@ -49,7 +49,13 @@ pub fn reparse(old_text: &str, old: &SourceFile, text: &str) -> SourceFile {
     let after = Ranges::from(old, old_end);
     let copy_after = || {
         let mut tail = copy(old, after.statements.clone(), after.comments.clone(), moved);
-        tail.errors = errors(old, old_end..usize::MAX, moved);
+        // With no unchanged header after the change, the part parsed again
+        // runs to the end of the text, and so do its errors: one at the
+        // very end (a coefficient with no species after it) is the old
+        // text's, not the tail's.
+        if end < bytes.len() {
+            tail.errors = errors(old, old_end..usize::MAX, moved);
+        }
         tail
     };
     let parse_between = || {
@@ -398,6 +404,19 @@ mod tests {
         }
         let same = reparse(&old_text, &old, &old_text);
         assert_eq!(format!("{same:?}"), format!("{old:?}"));
+    }
+
+    /// An error at the very end of the old text belongs to the statement
+    /// parsed again, not to an unchanged tail (found by the incremental
+    /// analysis property test).
+    #[test]
+    fn an_error_at_the_end_of_the_text_is_not_copied_after_an_edit_there() {
+        let head = "reaction a1: N2(g) + O2(g) <=> 2 NO(g)\n  K = 4e-31\n\
+                    reaction: Xx(g) <=> propanol\nunits energy = kcal/mol\n";
+        let old_text = format!("{head}reaction: Xx(g) <=2");
+        let text = format!("{head}reaction: Xx(g)2");
+        let new = reparse(&old_text, &parse(&old_text), &text);
+        assert_eq!(format!("{new:?}"), format!("{:?}", parse(&text)));
     }
 
     #[test]
