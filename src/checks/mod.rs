@@ -231,29 +231,25 @@ fn run_with(
         k: ReactionK::of(lib, reaction),
     });
     prep.mark("K models");
-    // The pair check groups reactions by a key made on every core. The
-    // cycle check, the longest, then runs on this thread while the
-    // grouping and the per-reaction, temperature and mixture checks run
-    // on another; the findings keep the order they have always had: per
-    // reaction, temperatures, mixtures, pairs, cycles.
-    let last = memory.flatten();
-    let unchanged = last.filter(|m| {
+    // The pair keys: the last ones when no reaction's net vector changed,
+    // else made on every core (with the vectors, for the next analysis,
+    // when the run keeps a memo).
+    let unchanged = memory.flatten().filter(|m| {
         m.nets.len() == checked.len()
             && checked
                 .iter()
                 .enumerate()
                 .all(|(i, c)| m.nets.same(i, c.reaction.net()))
     });
-    let (nets, keys) = match (memory, unchanged) {
-        (_, Some(m)) => (Arc::clone(&m.nets), Arc::clone(&m.keys)),
-        (None, None) => (
-            Arc::default(),
-            Arc::new(on_every_core(&checked, pairs::key)),
-        ),
-        (Some(_), None) => {
-            let mut nets = Nets::with_capacity(checked.len());
-            for c in &checked {
-                nets.push(c.reaction.net());
+    let (nets, keys) = match unchanged {
+        Some(m) => (Arc::clone(&m.nets), Arc::clone(&m.keys)),
+        None => {
+            let mut nets = Nets::default();
+            if memory.is_some() {
+                nets = Nets::with_capacity(checked.len());
+                for c in &checked {
+                    nets.push(c.reaction.net());
+                }
             }
             (
                 Arc::new(nets),
@@ -261,6 +257,10 @@ fn run_with(
             )
         }
     };
+    // The cycle check, the longest, runs on this thread while the pair
+    // grouping and the per-reaction, temperature and mixture checks run on
+    // another; the findings keep the order they have always had: per
+    // reaction, temperatures, mixtures, pairs, cycles.
     let clock = Phases::start();
     let others = || {
         let mut found = Vec::new();

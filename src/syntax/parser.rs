@@ -23,8 +23,7 @@ pub const KEYWORDS: &[&str] = &["units", "use", "species", "reaction", "mixture"
 /// the parser carries from line to line, so the pieces give exactly the
 /// statements, comments and errors of one pass, in the same order.
 pub fn parse(text: &str) -> SourceFile {
-    let workers = std::thread::available_parallelism().map_or(1, std::num::NonZeroUsize::get);
-    parse_in_pieces(text, PIECE_MIN_BYTES, workers)
+    parse_in_pieces(text, PIECE_MIN_BYTES, crate::parallel::cores())
 }
 
 /// Files smaller than this are parsed in one piece.
@@ -36,30 +35,18 @@ fn parse_in_pieces(text: &str, piece_min: usize, workers: usize) -> SourceFile {
     if cuts.len() < 2 {
         return parse_range(text, 0, text.len(), 0);
     }
-    // Line numbers where each piece starts, counted as the lexer does.
-    let mut first_lines = Vec::with_capacity(cuts.len());
+    // Each piece's start, end and first line (counted as the lexer does).
+    let mut ranges = Vec::with_capacity(cuts.len());
     let mut line = 0usize;
     let mut at = 0usize;
-    for &cut in &cuts {
+    for (i, &cut) in cuts.iter().enumerate() {
         line += count_line_breaks(&text[at..cut]);
-        first_lines.push(line);
+        let end = cuts.get(i + 1).copied().unwrap_or(text.len());
+        ranges.push((cut, end, line));
         at = cut;
     }
-    let ends: Vec<usize> = cuts.iter().skip(1).copied().chain([text.len()]).collect();
-    let pieces: Vec<SourceFile> = std::thread::scope(|scope| {
-        let handles: Vec<_> = cuts
-            .iter()
-            .zip(&ends)
-            .zip(&first_lines)
-            .map(|((&start, &end), &line)| scope.spawn(move || parse_range(text, start, end, line)))
-            .collect();
-        handles
-            .into_iter()
-            .map(|h| {
-                h.join()
-                    .unwrap_or_else(|panic| std::panic::resume_unwind(panic))
-            })
-            .collect()
+    let pieces = crate::parallel::map_in_order(&ranges, 1, |&(start, end, line)| {
+        parse_range(text, start, end, line)
     });
     join(pieces)
 }
