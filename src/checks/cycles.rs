@@ -11,7 +11,7 @@
 //! reaction the edit changed, from the finder as it stood before it.
 
 use super::{Checked, Nets, k_text, number, temperature, tolerance};
-use crate::chem::cycles::CycleFinder;
+use crate::chem::cycles::{CycleFinder, Dependence};
 use crate::diagnostic::Diagnostic;
 use crate::model::SpeciesId;
 use crate::units::constants::STANDARD_TEMPERATURE;
@@ -90,8 +90,9 @@ impl Failure {
         Some(-m)
     }
 
-    fn participants(&self) -> impl Iterator<Item = usize> + '_ {
-        std::iter::once(self.subject).chain(self.members.iter().map(|(j, _)| *j))
+    /// The reactions of the cycle, each with [`Failure::multiplier_of`].
+    fn participants(&self) -> impl Iterator<Item = (usize, f64)> + '_ {
+        std::iter::once((self.subject, 1.0)).chain(self.members.iter().map(|(j, m)| (*j, -m)))
     }
 
     /// The cycle solved for `reaction`: the members (with multipliers) it
@@ -156,32 +157,26 @@ const BLAME_ROUNDS: usize = 64;
 /// by its error, and what still misses goes to the next round. Cycles no
 /// shared error explains are left to their closing reaction, as a single
 /// cycle gives no reason to prefer any of its members.
-fn blame(failures: &[Failure], rel: f64) -> (Vec<Culprit>, Vec<usize>) {
+fn blame(failures: &[Failure], reactions: usize, rel: f64) -> (Vec<Culprit>, Vec<usize>) {
     let mut miss: Vec<f64> = failures.iter().map(|f| f.ln_k - f.predicted).collect();
     let open = |miss: &[f64], f: usize| miss[f].abs() > tolerance(failures[f].predicted, rel);
     let mut culprits: Vec<Culprit> = Vec::new();
+    let through = Through::new(failures, reactions);
+    let mut accepted = vec![false; reactions];
+    // (reaction, implied error, failure), grouped by reaction and sorted
+    // by error within a reaction.
     let mut entries: Vec<(usize, f64, usize)> = Vec::new();
-    let mut through: HashMap<usize, Vec<usize>> = HashMap::new();
-    for (f, failure) in failures.iter().enumerate() {
-        for c in failure.participants() {
-            through.entry(c).or_default().push(f);
-        }
-    }
-    let mut accepted: HashSet<usize> = HashSet::new();
     for _ in 0..BLAME_ROUNDS {
         entries.clear();
-        for (f, failure) in failures.iter().enumerate() {
-            if !open(&miss, f) {
-                continue;
-            }
-            for c in failure.participants() {
-                if let Some(e) = failure.implied_error(c, miss[f]) {
-                    entries.push((c, e, f));
+        for c in 0..reactions {
+            let start = entries.len();
+            for &(f, m) in through.of(c) {
+                if open(&miss, f) {
+                    entries.push((c, miss[f] / m, f));
                 }
             }
+            entries[start..].sort_unstable_by(|a, b| a.1.total_cmp(&b.1).then(a.2.cmp(&b.2)));
         }
-        entries
-            .sort_unstable_by(|a, b| a.0.cmp(&b.0).then(a.1.total_cmp(&b.1)).then(a.2.cmp(&b.2)));
         // Agreeing errors are runs in sorted order: a run starts at a value
         // and takes the following ones within AGREEMENT of it. A run counts
         // when it holds at least two cycles and a good share of the open
@@ -199,7 +194,7 @@ fn blame(failures: &[Failure], rel: f64) -> (Vec<Culprit>, Vec<usize>) {
             let open_through = last - first;
             // A K has one error: a reaction is accepted once, with the
             // error most cycles agree on.
-            let mut i = if accepted.contains(&c) { last } else { first };
+            let mut i = if accepted[c] { last } else { first };
             while i < last {
                 let e0 = entries[i].1;
                 let mut end = i + 1;
@@ -228,21 +223,18 @@ fn blame(failures: &[Failure], rel: f64) -> (Vec<Culprit>, Vec<usize>) {
         for (start, end) in runs {
             let run = &entries[start..end];
             let c = run[0].0;
-            if accepted.contains(&c) || run.iter().any(|&(_, _, f)| touched[f]) {
+            if accepted[c] || run.iter().any(|&(_, _, f)| touched[f]) {
                 continue;
             }
-            accepted.insert(c);
+            accepted[c] = true;
             let error = run[run.len() / 2].1;
             let mut explained: Vec<usize> = run.iter().map(|&(_, _, f)| f).collect();
             explained.sort_unstable();
             let mut shared = Vec::new();
-            for &f in through.get(&c).map_or(&[][..], Vec::as_slice) {
+            for &(f, m) in through.of(c) {
                 if !open(&miss, f) || touched[f] {
                     continue;
                 }
-                let Some(m) = failures[f].multiplier_of(c) else {
-                    continue;
-                };
                 miss[f] -= m * error;
                 touched[f] = true;
                 if explained.binary_search(&f).is_err() {
@@ -268,12 +260,17 @@ fn blame(failures: &[Failure], rel: f64) -> (Vec<Culprit>, Vec<usize>) {
         .enumerate()
         .map(|(i, c)| (c.reaction, i))
         .collect();
+    let mut listed: HashSet<(usize, usize)> = culprits
+        .iter()
+        .enumerate()
+        .flat_map(|(i, c)| c.shared.iter().map(move |&f| (i, f)))
+        .collect();
     let mut unexplained = Vec::new();
     for f in (0..failures.len()).filter(|&f| open(&miss, f)) {
         match by_reaction.get(&failures[f].subject) {
             Some(&i) => {
                 let c = &mut culprits[i];
-                if !c.shared.contains(&f) && !c.explained.contains(&f) {
+                if c.explained.binary_search(&f).is_err() && listed.insert((i, f)) {
                     c.shared.push(f);
                 }
             }
@@ -281,6 +278,42 @@ fn blame(failures: &[Failure], rel: f64) -> (Vec<Culprit>, Vec<usize>) {
         }
     }
     (culprits, unexplained)
+}
+
+/// The failing cycles through each reaction, with the multiplier by which
+/// an error in the reaction's ln K enters each one's miss
+/// ([`Failure::multiplier_of`]), in failure order: one list per reaction,
+/// laid end to end.
+struct Through {
+    starts: Vec<usize>,
+    items: Vec<(usize, f64)>,
+}
+
+impl Through {
+    fn new(failures: &[Failure], reactions: usize) -> Through {
+        let mut starts = vec![0usize; reactions + 1];
+        for failure in failures {
+            for (c, _) in failure.participants() {
+                starts[c + 1] += 1;
+            }
+        }
+        for c in 0..reactions {
+            starts[c + 1] += starts[c];
+        }
+        let mut next = starts.clone();
+        let mut items = vec![(0, 0.0); starts[reactions]];
+        for (f, failure) in failures.iter().enumerate() {
+            for (c, m) in failure.participants() {
+                items[next[c]] = (f, m);
+                next[c] += 1;
+            }
+        }
+        Through { starts, items }
+    }
+
+    fn of(&self, reaction: usize) -> &[(usize, f64)] {
+        &self.items[self.starts[reaction]..self.starts[reaction + 1]]
+    }
 }
 
 /// What the check adds a reaction with: its net vector and its ln K at the
@@ -338,6 +371,9 @@ pub(super) fn check(
     }
     let mut ln_k: Vec<f64> = vec![f64::NAN; reversible.len()];
     let mut v: Vec<(u32, Ratio<i64>)> = Vec::new();
+    // Reactions whose equation depends on earlier ones and whose ln K
+    // misses the value carried through the elimination.
+    let mut candidates: Vec<(usize, Dependence, f64)> = Vec::new();
     // The reactions the last check saw alike: its finder and failures
     // stand for them, once the occurrences of their species are counted.
     let mut same = 0;
@@ -394,26 +430,31 @@ pub(super) fn check(
         {
             continue;
         }
-        // Only a failing cycle is expanded into its members; the predicted
-        // value is taken again from them, exactly as the message shows it.
-        let members = finder.combination(&dependence);
+        candidates.push((i, dependence, value));
+    }
+    // Only a failing cycle is expanded into its members, on every core
+    // once the finder is complete; the predicted value is taken again from
+    // them, exactly as the message shows it.
+    let expanded = crate::parallel::map_in_order(&candidates, 16, |(i, dependence, value)| {
+        let members = finder.combination(dependence);
         // A single member is a duplicate, reverse or multiple: the pair
         // checks report those.
         if members.len() < 2 || members.iter().any(|(_, m)| !m.is_finite() || *m == 0.0) {
-            continue;
+            return None;
         }
         let predicted: f64 = members.iter().map(|(j, m)| m * ln_k[*j]).sum();
         if (value - predicted).abs() <= tolerance(predicted, rel) {
-            continue;
+            return None;
         }
-        failures.push(Failure {
-            subject: i,
+        Some(Failure {
+            subject: *i,
             members,
-            ln_k: value,
+            ln_k: *value,
             predicted,
-        });
-    }
-    let (culprits, unexplained) = blame(&failures, rel);
+        })
+    });
+    failures.extend(expanded.into_iter().flatten());
+    let (culprits, unexplained) = blame(&failures, reversible.len(), rel);
     for culprit in &culprits {
         out.push(report(ws, &reversible, &ln_k, t, &failures, culprit));
     }
