@@ -75,6 +75,7 @@ pub fn run(
             return EXIT_USAGE;
         }
     };
+    super::pages::fit_to_input(&files);
     let mut overlay = Overlay::default();
     let stdin_path = absolute(stdin_name.unwrap_or(Path::new("<stdin>")));
     if reads_stdin {

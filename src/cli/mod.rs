@@ -14,6 +14,7 @@ mod balance;
 mod check;
 mod explain;
 mod fmt;
+mod pages;
 pub mod render_human;
 pub mod render_json;
 pub mod render_sarif;
