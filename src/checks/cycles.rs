@@ -19,7 +19,9 @@ use crate::workspace::Workspace;
 use num_rational::Ratio;
 use std::collections::{HashMap, HashSet};
 
-fn reference_temperature(checked: &[&Checked]) -> f64 {
+/// The temperature the cycle check compares K at (the one at which the
+/// most reactions have a K), with each reaction's ln K there.
+fn reference_temperature(checked: &[&Checked]) -> (f64, Vec<Option<f64>>) {
     let mut counts: HashMap<u64, usize> = HashMap::new();
     for c in checked {
         for p in c.k.stated.iter().chain(&c.k.gibbs) {
@@ -28,7 +30,7 @@ fn reference_temperature(checked: &[&Checked]) -> f64 {
     }
     let mut candidates: Vec<(u64, usize)> = counts.into_iter().collect();
     candidates.sort_by(|a, b| b.1.cmp(&a.1).then(a.0.cmp(&b.0)));
-    let mut best = (STANDARD_TEMPERATURE, 0usize);
+    let mut best: (f64, usize, Option<Vec<Option<f64>>>) = (STANDARD_TEMPERATURE, 0, None);
     let mut temps: Vec<f64> = candidates
         .iter()
         .take(3)
@@ -36,16 +38,18 @@ fn reference_temperature(checked: &[&Checked]) -> f64 {
         .collect();
     temps.push(STANDARD_TEMPERATURE);
     for t in temps {
-        let n = checked.iter().filter(|c| c.k.ln_k_at(t).is_ok()).count();
+        let values = super::on_every_core(checked, |c| c.k.ln_k_at(t).ok().map(|e| e.ln_k));
+        let n = values.iter().filter(|v| v.is_some()).count();
         if n > best.1 {
-            best = (t, n);
+            best = (t, n, Some(values));
         }
         // No later candidate can do better than every reaction.
         if best.1 == checked.len() {
             break;
         }
     }
-    best.0
+    let (t, _, values) = best;
+    (t, values.unwrap_or_else(|| vec![None; checked.len()]))
 }
 
 fn multiplier_text(m: f64) -> String {
@@ -351,13 +355,13 @@ pub(super) fn check(
     if reversible.len() < 3 {
         return None;
     }
-    let t = reference_temperature(&reversible);
+    let (t, ln_k_at_t) = reference_temperature(&reversible);
     // What each reaction is added with: its net vector and ln K.
     let inputs: Vec<Input> = reversible
         .iter()
-        .map(|c| {
+        .zip(ln_k_at_t)
+        .map(|(c, value)| {
             let net = c.reaction.net();
-            let value = c.k.ln_k_at(t).ok().map(|e| e.ln_k);
             (net, value.filter(|_| !net.is_empty()))
         })
         .collect();
@@ -455,9 +459,9 @@ pub(super) fn check(
     });
     failures.extend(expanded.into_iter().flatten());
     let (culprits, unexplained) = blame(&failures, reversible.len(), rel);
-    for culprit in &culprits {
-        out.push(report(ws, &reversible, &ln_k, t, &failures, culprit));
-    }
+    out.extend(crate::parallel::map_in_order(&culprits, 16, |culprit| {
+        report(ws, &reversible, &ln_k, t, &failures, culprit)
+    }));
     for f in unexplained {
         let alone = Culprit {
             reaction: failures[f].subject,
