@@ -172,12 +172,20 @@ fn blame(failures: &[Failure], reactions: usize, rel: f64) -> (Vec<Culprit>, Vec
     let mut entries: Vec<(usize, f64, usize)> = Vec::new();
     for _ in 0..BLAME_ROUNDS {
         entries.clear();
+        entries.reserve(through.items.len());
         for c in 0..reactions {
             let start = entries.len();
             for &(f, m) in through.of(c) {
                 if open(&miss, f) {
                     entries.push((c, miss[f] / m, f));
                 }
+            }
+            // A run needs two cycles: a reaction with one open cycle
+            // through it has none (the count of open cycles through a
+            // reaction is only used for reactions with a run).
+            if entries.len() - start < 2 {
+                entries.truncate(start);
+                continue;
             }
             entries[start..].sort_unstable_by(|a, b| a.1.total_cmp(&b.1).then(a.2.cmp(&b.2)));
         }
