@@ -38,7 +38,10 @@ fn reference_temperature(checked: &[&Checked]) -> (f64, Vec<Option<f64>>) {
         .collect();
     temps.push(STANDARD_TEMPERATURE);
     for t in temps {
-        let values = super::on_every_core(checked, |c| c.k.ln_k_at(t).ok().map(|e| e.ln_k));
+        let values: Vec<Option<f64>> = checked
+            .iter()
+            .map(|c| c.k.ln_k_at(t).ok().map(|e| e.ln_k))
+            .collect();
         let n = values.iter().filter(|v| v.is_some()).count();
         if n > best.1 {
             best = (t, n, Some(values));
