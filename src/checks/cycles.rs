@@ -90,11 +90,9 @@ impl Failure {
     /// How an error in the ln K of `reaction` enters the cycle's miss: 1
     /// for the reaction that closes it, minus its multiplier for a member.
     fn multiplier_of(&self, reaction: usize) -> Option<f64> {
-        if reaction == self.subject {
-            return Some(1.0);
-        }
-        let (_, m) = self.members.iter().find(|(j, _)| *j == reaction)?;
-        Some(-m)
+        self.participants()
+            .find(|(j, _)| *j == reaction)
+            .map(|(_, m)| m)
     }
 
     /// The reactions of the cycle, each with [`Failure::multiplier_of`].

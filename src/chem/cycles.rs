@@ -143,10 +143,11 @@ impl Q {
     }
 }
 
-/// A basis vector's entries scaled to integers by the least common
-/// multiple of their denominators, and that multiple, when every value
-/// fits.
-fn integers_of(entries: &[(u32, Q)]) -> Option<(i64, Vec<(u32, i64)>)> {
+/// Append a basis vector's entries scaled to integers (by the least common
+/// multiple of their denominators) to `arena`, and return where they start,
+/// how many there are and that multiple; `None`, with `arena` unchanged,
+/// when a value does not fit or the arena would outgrow its `u32` indexes.
+fn push_integers(arena: &mut Vec<(u32, i64)>, entries: &[(u32, Q)]) -> Option<(u32, u32, i64)> {
     let mut lcm: i64 = 1;
     for (_, x) in entries {
         let Q::Small(r) = x else {
@@ -156,14 +157,21 @@ fn integers_of(entries: &[(u32, Q)]) -> Option<(i64, Vec<(u32, i64)>)> {
         let g = i64::try_from(gcd_i64(lcm, d)).ok()?;
         lcm = lcm.checked_mul(d / g)?;
     }
-    let values = entries
-        .iter()
-        .map(|(s, x)| match x {
-            Q::Small(r) => Some((*s, i64::checked_mul(*r.numer(), lcm / r.denom())?)),
+    let start = u32::try_from(arena.len()).ok()?;
+    let len = u32::try_from(entries.len()).ok()?;
+    start.checked_add(len)?;
+    for (s, x) in entries {
+        let value = match x {
+            Q::Small(r) => i64::checked_mul(*r.numer(), lcm / r.denom()),
             Q::Big(_) => None,
-        })
-        .collect::<Option<Vec<(u32, i64)>>>()?;
-    Some((lcm, values))
+        };
+        let Some(value) = value else {
+            arena.truncate(start as usize);
+            return None;
+        };
+        arena.push((*s, value));
+    }
+    Some((start, len, lcm))
 }
 
 fn gcd_i64(a: i64, b: i64) -> u64 {
@@ -669,18 +677,13 @@ impl CycleFinder {
         }
         self.pivot_of[p] = u32::try_from(self.basis.len()).unwrap_or(NONE);
         let value = q_to_f64(&scale) * (value - predicted);
-        // The integer form, unless it does not fit (or the finder holds
-        // more integers than its indexes count).
-        let start = u32::try_from(self.integers.len()).ok();
-        let (start, len, denominator) = match (start, integers_of(&entries)) {
-            (Some(start), Some((denominator, values)))
-                if u32::try_from(self.integers.len() + values.len()).is_ok() =>
-            {
-                self.integers.extend_from_slice(&values);
-                (start, values.len() as u32, denominator)
-            }
-            _ => (start.unwrap_or(u32::MAX), 0, 0),
-        };
+        // The integer form, unless it does not fit; a vector without one
+        // starts where the next would, so that `before` can cut the arena.
+        let (start, len, denominator) = push_integers(&mut self.integers, &entries).unwrap_or((
+            u32::try_from(self.integers.len()).unwrap_or(u32::MAX),
+            0,
+            0,
+        ));
         self.pivoted.push(Pivoted {
             pivot,
             start,
