@@ -42,22 +42,31 @@ fn parse_in_pieces(text: &str, piece_min: usize, workers: usize) -> SourceFile {
     for (i, &cut) in cuts.iter().enumerate() {
         line += count_line_breaks(&text[at..cut]);
         let end = cuts.get(i + 1).copied().unwrap_or(text.len());
-        ranges.push((cut, end, line));
+        ranges.push((cut, end, line, count_headers(&text[cut..end])));
         at = cut;
     }
-    let pieces = crate::parallel::map_in_order(&ranges, 1, |&(start, end, line)| {
-        parse_range(text, start, end, line)
+    // The first piece makes room for every statement, since the others are
+    // appended to it.
+    let all = ranges.iter().map(|r| r.3).sum();
+    if let Some(first) = ranges.first_mut() {
+        first.3 = all;
+    }
+    let pieces = crate::parallel::map_in_order(&ranges, 1, |&(start, end, line, room)| {
+        parse_range_with_room(text, start, end, line, room)
     });
     join(pieces)
 }
 
 /// The trees of consecutive pieces of one text as one tree.
 pub(super) fn join(pieces: Vec<SourceFile>) -> SourceFile {
-    let mut file = SourceFile::default();
+    let statements = pieces.iter().map(|p| p.statements.len()).sum::<usize>();
+    let comments = pieces.iter().map(|p| p.comments.len()).sum::<usize>();
+    let mut pieces = pieces.into_iter();
+    // The first piece's vectors are kept and the others appended to them.
+    let mut file = pieces.next().unwrap_or_default();
     file.statements
-        .reserve_exact(pieces.iter().map(|p| p.statements.len()).sum());
-    file.comments
-        .reserve_exact(pieces.iter().map(|p| p.comments.len()).sum());
+        .reserve_exact(statements - file.statements.len());
+    file.comments.reserve_exact(comments - file.comments.len());
     for piece in pieces {
         file.statements.extend(piece.statements);
         file.comments.extend(piece.comments);
@@ -107,9 +116,30 @@ pub(super) fn count_line_breaks(text: &str) -> usize {
 /// Parse `text[start..end]`, a run of whole lines starting at line
 /// `first_line`, with spans into the whole text.
 pub(super) fn parse_range(text: &str, start: usize, end: usize, first_line: usize) -> SourceFile {
+    parse_range_with_room(
+        text,
+        start,
+        end,
+        first_line,
+        count_headers(&text[start..end]),
+    )
+}
+
+/// [`parse_range`] with room made for `room` statements.
+fn parse_range_with_room(
+    text: &str,
+    start: usize,
+    end: usize,
+    first_line: usize,
+    room: usize,
+) -> SourceFile {
+    // Sized once: a large file's statements grown by doubling were copied
+    // some three times over into memory fresh from the system.
+    let mut file = SourceFile::default();
+    file.statements.reserve_exact(room);
     let mut parser = Parser {
         text,
-        file: SourceFile::default(),
+        file,
         current: None,
         skipping: false,
         scratch: Vec::new(),
@@ -129,9 +159,20 @@ pub(super) fn parse_range(text: &str, start: usize, end: usize, first_line: usiz
     }
     parser.line(&line, line_no);
     parser.finish_statement();
-    parser.file.statements.shrink_to_fit();
     parser.file.comments.shrink_to_fit();
     parser.file
+}
+
+/// Lines that begin with an ASCII letter, as a statement's header does: room
+/// for the statements of a text (a header after a byte order mark is not
+/// counted; the vector then grows).
+fn count_headers(text: &str) -> usize {
+    let bytes = text.as_bytes();
+    let first = usize::from(bytes.first().is_some_and(u8::is_ascii_alphabetic));
+    first
+        + memchr::memchr_iter(b'\n', bytes)
+            .filter(|&i| bytes.get(i + 1).is_some_and(u8::is_ascii_alphabetic))
+            .count()
 }
 
 struct Parser<'t> {
