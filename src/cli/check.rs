@@ -1,7 +1,7 @@
 //! `stoik check`: lint files and folders for people and for CI.
 
 use super::render_human::{self, Style};
-use super::render_json::{self, CheckReport, Summary};
+use super::render_json::{self, Summary};
 use super::{EXIT_FINDINGS, EXIT_OK, EXIT_USAGE, Format};
 use crate::config::{Config, absolute, find_root};
 use crate::diagnostic::Severity;
@@ -137,8 +137,12 @@ pub fn run(
                 color: super::use_color(),
             };
             let mut text = String::new();
-            for d in &analysis.diagnostics {
-                text.push_str(&render_human::render(d, ws, style));
+            // Rendered on every core, then joined in order.
+            let rendered = crate::parallel::map_in_order(&analysis.diagnostics, 64, |d| {
+                render_human::render(d, ws, style)
+            });
+            for r in rendered {
+                text.push_str(&r);
                 text.push('\n');
             }
             text.push_str(&render_human::summary(
@@ -150,18 +154,8 @@ pub fn run(
             text.push('\n');
             out.write_all(text.as_bytes())
         }
-        Format::Json => {
-            let report = CheckReport {
-                diagnostics: render_json::Diagnostics {
-                    diagnostics: &analysis.diagnostics,
-                    workspace: ws,
-                },
-                summary,
-            };
-            serde_json::to_writer_pretty(&mut out, &report)
-                .map_err(std::io::Error::other)
-                .and_then(|_| writeln!(out))
-        }
+        Format::Json => render_json::write_report(&mut out, &analysis.diagnostics, ws, summary)
+            .and_then(|_| writeln!(out)),
         Format::Sarif => {
             let log = super::render_sarif::render(&analysis.diagnostics, ws);
             serde_json::to_writer_pretty(&mut out, &log)

@@ -5,27 +5,45 @@ use crate::syntax::line_index::Encoding;
 use crate::workspace::Workspace;
 use serde::Serialize;
 
-#[derive(Serialize)]
-pub struct CheckReport<'a> {
-    pub diagnostics: Diagnostics<'a>,
-    pub summary: Summary,
-}
-
-/// The diagnostics of a report, converted one at a time as they are
-/// written, so that a large report is never held twice in memory.
-pub struct Diagnostics<'a> {
-    pub diagnostics: &'a [Diagnostic],
-    pub workspace: &'a Workspace,
-}
-
-impl Serialize for Diagnostics<'_> {
-    fn serialize<S: serde::Serializer>(&self, serializer: S) -> Result<S::Ok, S::Error> {
-        serializer.collect_seq(
-            self.diagnostics
-                .iter()
-                .map(|d| diagnostic(d, self.workspace)),
-        )
+/// The report, `{"diagnostics": [...], "summary": {...}}`, as pretty JSON,
+/// byte for byte what `serde_json::to_writer_pretty` makes of it. The
+/// diagnostics are converted and written on every core, a batch at a time,
+/// so that a large report (some 90 bytes of JSON per reaction of a library
+/// with a planted mistake in every hundredth) is never held whole.
+pub fn write_report(
+    out: &mut impl std::io::Write,
+    diagnostics: &[Diagnostic],
+    ws: &Workspace,
+    summary: Summary,
+) -> std::io::Result<()> {
+    out.write_all(b"{\n  \"diagnostics\": [")?;
+    for (b, batch) in diagnostics.chunks(BATCH).enumerate() {
+        let texts = crate::parallel::map_in_order(batch, 64, |d| nested(&diagnostic(d, ws), 2));
+        for (i, text) in texts.into_iter().enumerate() {
+            if b > 0 || i > 0 {
+                out.write_all(b",")?;
+            }
+            out.write_all(b"\n    ")?;
+            out.write_all(text?.as_bytes())?;
+        }
     }
+    if !diagnostics.is_empty() {
+        out.write_all(b"\n  ")?;
+    }
+    out.write_all(b"],\n  \"summary\": ")?;
+    out.write_all(nested(&summary, 1)?.as_bytes())?;
+    out.write_all(b"\n}")
+}
+
+/// Diagnostics converted at a time by [`write_report`].
+const BATCH: usize = 4096;
+
+/// `value` as pretty JSON for a place `depth` levels deep in a document:
+/// every line after the first indented by two more spaces a level, as the
+/// pretty writer indents (a JSON string holds no raw line break).
+fn nested<T: Serialize>(value: &T, depth: usize) -> std::io::Result<String> {
+    let text = serde_json::to_string_pretty(value).map_err(std::io::Error::other)?;
+    Ok(text.replace('\n', &format!("\n{}", "  ".repeat(depth))))
 }
 
 #[derive(Serialize, Default, Clone, Copy)]
@@ -157,5 +175,68 @@ pub fn diagnostic(d: &Diagnostic, ws: &Workspace) -> JsonDiagnostic {
                     .collect(),
             })
             .collect(),
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::config::Config;
+    use crate::workspace::Overlay;
+
+    /// The report as one value, for the pretty writer to write whole.
+    #[derive(Serialize)]
+    struct Whole {
+        diagnostics: Vec<JsonDiagnostic>,
+        summary: Summary,
+    }
+
+    fn both_ways(text: &str) -> (String, String, usize) {
+        let dir = tempfile::tempdir().expect("a temporary folder");
+        let path = dir.path().join("cases.stoik");
+        std::fs::write(&path, text).expect("the file is written");
+        let mut ws = Workspace::new(dir.path());
+        ws.load(&path, &Overlay::default()).expect("the file loads");
+        let analysis = crate::analysis::analyze_for_diagnostics(ws, &Config::default());
+        let ws = &analysis.workspace;
+        let summary = Summary {
+            files: ws.files.len(),
+            errors: 1,
+            warnings: 2,
+            infos: 3,
+        };
+        let whole = Whole {
+            diagnostics: analysis
+                .diagnostics
+                .iter()
+                .map(|d| diagnostic(d, ws))
+                .collect(),
+            summary,
+        };
+        let expected = serde_json::to_string_pretty(&whole).expect("serialized");
+        let mut written = Vec::new();
+        write_report(&mut written, &analysis.diagnostics, ws, summary).expect("written");
+        let written = String::from_utf8(written).expect("UTF-8");
+        (written, expected, analysis.diagnostics.len())
+    }
+
+    #[test]
+    fn batches_write_what_the_pretty_writer_writes() {
+        // Unbalanced equations (with fixes and help), a string with an
+        // escaped line break, and enough of them to span several batches.
+        let mut text = String::from("reaction q: H2 + O2 <=> H2O\n  source = \"a\\nb\"\n");
+        for i in 0..(BATCH + 10) {
+            text.push_str(&format!("reaction r{i}: H2 + O2 <=> H2O\n"));
+        }
+        let (written, expected, count) = both_ways(&text);
+        assert!(count > BATCH, "{count} diagnostics");
+        assert_eq!(written, expected);
+    }
+
+    #[test]
+    fn an_empty_report_is_written_as_the_pretty_writer_writes_it() {
+        let (written, expected, count) = both_ways("species H2\n");
+        assert_eq!(count, 0);
+        assert_eq!(written, expected);
     }
 }
