@@ -31,8 +31,9 @@ fn main() {
         }
     }
     eprintln!(
-        "wrote {} files, {reactions} reactions, {bytes} bytes, {} planted mistakes, top file {}",
+        "wrote {} files, {} reactions, {bytes} bytes, {} planted mistakes, top file {}",
         generated.files.len(),
+        generated.reactions,
         generated.planted,
         dir.join("library.stoik").display()
     );

@@ -28,6 +28,9 @@ pub struct Generated {
     pub files: Vec<(String, String)>,
     /// Reactions with a planted mistake.
     pub planted: usize,
+    /// Reactions written: the number asked for, unless the pairs to join ran
+    /// out first.
+    pub reactions: usize,
 }
 
 /// A small deterministic generator (xorshift64*), so that libraries are the
@@ -103,6 +106,13 @@ pub fn generate(recipe: &Recipe) -> Generated {
         gibbs(&mut species, *c, *g);
     }
     let pool_limit = recipe.reactions.max(64);
+    let mut in_pool: std::collections::HashSet<Composition> = pool.iter().copied().collect();
+    // Species joining the pool have fewer atoms than this, so that sums
+    // collide often; once nearly every pair of the pool has been used (a
+    // long run of repeats), the bound is raised, so that a library of any
+    // size can be made.
+    let mut atoms_below = 40;
+    let mut repeats = 0;
     let mut seen: std::collections::HashSet<(Composition, Composition)> =
         std::collections::HashSet::new();
     let mut i = 0;
@@ -115,14 +125,20 @@ pub fn generate(recipe: &Recipe) -> Generated {
         // Each pair once: the same reaction twice would be a duplicate.
         let pair = if x <= y { (x, y) } else { (y, x) };
         if !seen.insert(pair) {
+            repeats += 1;
+            if repeats == REPEATS_BEFORE_LARGER_SPECIES {
+                atoms_below += 1;
+                repeats = 0;
+            }
             continue;
         }
+        repeats = 0;
         let z = add(&x, &y);
         let gx = species[&x];
         let gy = species[&y];
         let gz_default = gx + gy - 50e3 + 100e3 * rng.unit();
         let gz = gibbs(&mut species, z, gz_default);
-        if pool.len() < pool_limit && !pool.contains(&z) && z.iter().sum::<u32>() < 40 {
+        if pool.len() < pool_limit && z.iter().sum::<u32>() < atoms_below && in_pool.insert(z) {
             pool.push(z);
         }
         let mut ln_k = -(gz - gx - gy) / rt;
@@ -170,8 +186,15 @@ pub fn generate(recipe: &Recipe) -> Generated {
             format!("# Synthetic part {i}, invented data.\n{b}"),
         ));
     }
-    Generated { files, planted }
+    Generated {
+        files,
+        planted,
+        reactions: i,
+    }
 }
+
+/// Repeated pairs in a row after which larger species may join the pool.
+const REPEATS_BEFORE_LARGER_SPECIES: usize = 64;
 
 /// The one-file library of the language server's edit benchmark: invented,
 /// distinct reactions (dehydrogenations with K and dH, chlorinations with
