@@ -109,6 +109,9 @@ fn analyze_with(
         });
         lasts.push(last);
     }
+    // Suppressions are read while the statements they cover are still
+    // there; `stoik check` frees the statements before the checks.
+    let suppressions = crate::suppression::collect(&workspace);
     if !keep_syntax {
         for f in &mut workspace.files {
             f.syntax.statements = Vec::new();
@@ -125,7 +128,7 @@ fn analyze_with(
         }
     }
     let clock = crate::checks::Phases::start();
-    let diagnostics = finish(&workspace, raw, config);
+    let diagnostics = finish(&workspace, raw, suppressions, config);
     clock.mark("suppressions and severities");
     Analysis {
         workspace,
@@ -135,14 +138,18 @@ fn analyze_with(
 }
 
 /// Deduplicate, apply suppressions and severities, sort.
-fn finish(ws: &Workspace, raw: Vec<Diagnostic>, config: &Config) -> Vec<Diagnostic> {
+fn finish(
+    ws: &Workspace,
+    raw: Vec<Diagnostic>,
+    mut suppressions: crate::suppression::Suppressions,
+    config: &Config,
+) -> Vec<Diagnostic> {
     let mut seen = HashSet::default();
     let mut list: Vec<Diagnostic> = raw
         .into_iter()
         .filter(|d| seen.insert((d.file, d.span, d.rule, d.message.clone())))
         .collect();
     let mut out = Vec::with_capacity(list.len());
-    let mut suppressions = crate::suppression::collect(ws);
     list.retain(|d| {
         let line = ws.file(d.file).index.line_of(d.span.start);
         !suppressions.silences(d, line)

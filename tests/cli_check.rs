@@ -125,6 +125,25 @@ fn warnings_fail_only_under_deny_warnings() {
 }
 
 #[test]
+fn a_suppression_covers_every_line_of_its_statement() {
+    // The finding is on the statement's second line, the comment on the
+    // line before the statement: the command silences it as the editor
+    // does (it once read the suppressions after freeing the statements,
+    // and silenced only the comment's own line).
+    let text = "\
+# Invented demo data.
+# stoik: allow missing-unit
+reaction: N2O4(g) <=> 2 NO2(g)
+  Kp = 0.15 bar at 298.15 K
+  dH = 57.2
+";
+    let dir = folder(&[("quiet.stoik", text)]);
+    let o = run_in(dir.path(), &["check", "--format", "json", "quiet.stoik"]);
+    assert_eq!(o.status.code(), Some(0), "{}", stdout(&o));
+    assert_eq!(rules_of(&json(&o)), Vec::<String>::new());
+}
+
+#[test]
 fn exit_code_is_2_for_a_missing_path_and_for_a_bad_flag() {
     let dir = folder(&[("clean.stoik", CLEAN)]);
     let missing = run_in(dir.path(), &["check", "no-such-file.stoik"]);
