@@ -151,7 +151,7 @@ fn finish(
         .collect();
     let mut out = Vec::with_capacity(list.len());
     list.retain(|d| {
-        let line = ws.file(d.file).index.line_of(d.span.start);
+        let line = ws.file(d.file).index.line_of(d.span.start());
         !suppressions.silences(d, line)
     });
     list.extend(suppressions.unused(ws));
@@ -168,7 +168,12 @@ fn finish(
         out.push(d);
     }
     out.sort_by(|a, b| {
-        (a.file, a.span.start, a.span.end, a.rule).cmp(&(b.file, b.span.start, b.span.end, b.rule))
+        (a.file, a.span.start(), a.span.end(), a.rule).cmp(&(
+            b.file,
+            b.span.start(),
+            b.span.end(),
+            b.rule,
+        ))
     });
     out
 }

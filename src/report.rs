@@ -74,7 +74,7 @@ pub fn natural_temperature(k: &ReactionK) -> f64 {
 /// The row of one reaction; `t` overrides its natural temperature.
 pub fn row(ws: &Workspace, lib: &Library, r: &Reaction, t: Option<f64>) -> ReactionRow {
     let file = ws.file(r.loc.file);
-    let line = file.index.line_of(r.loc.span.start) + 1;
+    let line = file.index.line_of(r.loc.span.start()) + 1;
     let equation = file.text[r.equation_loc.span.range()].to_string();
     let k = ReactionK::of(lib, r);
     let t = t.unwrap_or_else(|| natural_temperature(&k));

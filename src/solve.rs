@@ -76,7 +76,7 @@ fn reaction_name(ws: &Workspace, r: &crate::model::Reaction) -> String {
         Some(l) => l.clone(),
         None => format!(
             "line {}",
-            ws.file(r.loc.file).index.line_of(r.loc.span.start) + 1
+            ws.file(r.loc.file).index.line_of(r.loc.span.start()) + 1
         ),
     }
 }

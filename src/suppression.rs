@@ -76,7 +76,7 @@ pub fn collect(ws: &Workspace) -> Suppressions {
             for (off, rule) in rules {
                 allows.push(Allow {
                     file: f.id,
-                    span: Span::new(c.span.start + off, c.span.start + off + rule.len()),
+                    span: Span::new(c.span.start() + off, c.span.start() + off + rule.len()),
                     rule,
                     lines,
                     used: false,

@@ -150,6 +150,18 @@ impl Parsed {
     }
 }
 
+/// `bytes`, unless they are too many for the byte offsets of a [`Span`].
+fn within_limit(bytes: Vec<u8>) -> std::io::Result<Vec<u8>> {
+    if bytes.len() > crate::span::MAX_FILE_BYTES {
+        return Err(std::io::Error::other(format!(
+            "the file has {} bytes; stoik reads files of up to {} bytes (4 GiB)",
+            bytes.len(),
+            crate::span::MAX_FILE_BYTES
+        )));
+    }
+    Ok(bytes)
+}
+
 /// Why a root file could not be read at all (exit code 2 in the CLI).
 #[derive(Debug)]
 pub struct ReadError {
@@ -179,7 +191,7 @@ impl Workspace {
             if self.by_path.contains_key(&path) || self.preparsed.contains_key(&path) {
                 continue;
             }
-            if let Ok(bytes) = source.read(&path) {
+            if let Ok(bytes) = source.read(&path).and_then(within_limit) {
                 jobs.push((path, bytes));
             }
         }
@@ -227,6 +239,7 @@ impl Workspace {
             Some(p) => Ok(p),
             None => source
                 .read(path)
+                .and_then(within_limit)
                 .map(|bytes| Parsed::reusing(bytes, source.earlier(path))),
         }
     }

@@ -51,7 +51,7 @@ fn blamed(dir: &Path, files: &[(String, String)]) -> Vec<String> {
         .filter(|d| d.rule == "cycle-inconsistent")
         .map(|d| {
             let text = &analysis.workspace.file(d.file).text;
-            reaction_name(&text[d.span.start..]).unwrap_or_default()
+            reaction_name(&text[d.span.start()..]).unwrap_or_default()
         })
         .collect()
 }

@@ -64,7 +64,7 @@ fn every_fixture_reports_exactly_its_expectations() {
         let mut actual: BTreeMap<usize, Vec<String>> = BTreeMap::new();
         for d in analysis.diagnostics.iter().filter(|d| d.file == id) {
             let f = analysis.workspace.file(d.file);
-            let line = f.index.line_of(d.span.start) + 1;
+            let line = f.index.line_of(d.span.start()) + 1;
             actual.entry(line).or_default().push(d.rule.to_string());
         }
         for v in actual.values_mut() {
@@ -77,7 +77,7 @@ fn every_fixture_reports_exactly_its_expectations() {
                 let f = analysis.workspace.file(d.file);
                 detail.push_str(&format!(
                     "    line {}: [{}] {}\n",
-                    f.index.line_of(d.span.start) + 1,
+                    f.index.line_of(d.span.start()) + 1,
                     d.rule,
                     d.message
                 ));

@@ -224,7 +224,7 @@ fn check_invariants(text: &str) -> Result<(), TestCaseError> {
         let at_line_end = lexemes.get(i + 1).is_none_or(|n| n.token == Token::Newline);
         let piece = &once[l.span.range()];
         let bad = match l.token {
-            Token::Space => !(l.span.start == 0 && piece == "\u{feff}"),
+            Token::Space => !(l.span.start() == 0 && piece == "\u{feff}"),
             Token::Comment => piece.ends_with([' ', '\t', '\u{a0}', '\u{feff}']),
             _ => false,
         };

@@ -17,19 +17,19 @@ fn analyse(text: &str) -> Vec<stoik::diagnostic::Diagnostic> {
     let analysis = stoik::analysis::analyze(ws, &Config::default());
     for d in &analysis.diagnostics {
         let f = analysis.workspace.file(d.file);
-        assert!(d.span.start <= d.span.end, "{d:?}");
-        assert!(d.span.end <= f.text.len(), "span past the end: {d:?}");
+        assert!(d.span.start() <= d.span.end(), "{d:?}");
+        assert!(d.span.end() <= f.text.len(), "span past the end: {d:?}");
         assert!(
-            f.text.is_char_boundary(d.span.start) && f.text.is_char_boundary(d.span.end),
+            f.text.is_char_boundary(d.span.start()) && f.text.is_char_boundary(d.span.end()),
             "{d:?}"
         );
         for fix in &d.fixes {
             for e in &fix.edits {
                 let g = analysis.workspace.file(e.file);
                 assert!(
-                    e.span.end <= g.text.len()
-                        && g.text.is_char_boundary(e.span.start)
-                        && g.text.is_char_boundary(e.span.end)
+                    e.span.end() <= g.text.len()
+                        && g.text.is_char_boundary(e.span.start())
+                        && g.text.is_char_boundary(e.span.end())
                 );
             }
         }
@@ -93,10 +93,10 @@ proptest! {
         let lexemes = stoik::syntax::lexer::lex(&text);
         let mut at = 0;
         for l in &lexemes {
-            prop_assert_eq!(l.span.start, at);
-            prop_assert!(l.span.end > l.span.start, "an empty lexeme {:?}", l);
-            prop_assert!(text.is_char_boundary(l.span.end));
-            at = l.span.end;
+            prop_assert_eq!(l.span.start(), at);
+            prop_assert!(l.span.end() > l.span.start(), "an empty lexeme {:?}", l);
+            prop_assert!(text.is_char_boundary(l.span.end()));
+            at = l.span.end();
         }
         prop_assert_eq!(at, text.len());
     }
@@ -117,7 +117,7 @@ fn of_rule(d: &[stoik::diagnostic::Diagnostic], text: &str, rule: &str) -> Vec<(
     let index = stoik::syntax::line_index::LineIndex::new(text);
     d.iter()
         .filter(|d| d.rule == rule)
-        .map(|d| (index.line_of(d.span.start) + 1, d.message.clone()))
+        .map(|d| (index.line_of(d.span.start()) + 1, d.message.clone()))
         .collect()
 }
 
@@ -280,7 +280,7 @@ fn hostile_numbers_are_diagnosed() {
             .iter()
             .filter(|d| {
                 d.severity == stoik::diagnostic::Severity::Error
-                    && text[..d.span.start].matches('\n').count() == 1
+                    && text[..d.span.start()].matches('\n').count() == 1
             })
             .collect();
         assert!(
@@ -297,7 +297,7 @@ fn a_mixture_with_hostile_numbers_is_not_solved() {
     let d = analyse(text);
     let lines: Vec<usize> = d
         .iter()
-        .map(|d| text[..d.span.start].matches('\n').count() + 1)
+        .map(|d| text[..d.span.start()].matches('\n').count() + 1)
         .collect();
     for line in [4, 6, 7] {
         assert!(lines.contains(&line), "line {line}: {d:?}");
@@ -455,7 +455,7 @@ fn a_use_reaching_outside_the_workspace_is_refused() {
         .diagnostics
         .iter()
         .filter(|d| d.rule == "use-error" && d.message.contains("outside the workspace"))
-        .map(|d| top[..d.span.start].matches('\n').count() + 1)
+        .map(|d| top[..d.span.start()].matches('\n').count() + 1)
         .collect();
     assert_eq!(refused, [1, 2, 3, 4]);
     // Nothing outside was read.
@@ -567,7 +567,7 @@ fn a_file_that_changes_while_it_is_read_gives_a_consistent_result() {
         // The diagnostics fit the texts that were read.
         for d in &analysis.diagnostics {
             let f = ws.file(d.file);
-            assert!(d.span.end <= f.text.len() && f.text.is_char_boundary(d.span.start));
+            assert!(d.span.end() <= f.text.len() && f.text.is_char_boundary(d.span.start()));
         }
         match ws.id_of(&part) {
             None => {

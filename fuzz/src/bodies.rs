@@ -33,9 +33,9 @@ pub fn lexer(text: &str) {
     let lexemes = lex(text);
     let mut at = 0;
     for l in &lexemes {
-        assert_eq!(l.span.start, at, "a gap or overlap before {l:?}");
-        assert!(l.span.end > l.span.start, "an empty lexeme {l:?}");
-        assert_span(text, l.span.start, l.span.end, "lexeme");
+        assert_eq!(l.span.start(), at, "a gap or overlap before {l:?}");
+        assert!(l.span.end() > l.span.start(), "an empty lexeme {l:?}");
+        assert_span(text, l.span.start(), l.span.end(), "lexeme");
         let piece = &text[l.span.range()];
         match l.token {
             Token::Newline => assert!(matches!(piece, "\n" | "\r\n" | "\r"), "{piece:?}"),
@@ -60,7 +60,7 @@ pub fn lexer(text: &str) {
             Token::Word => assert!(!piece.contains([' ', '\t', '\n', '\r', '#']), "{piece:?}"),
             _ => {}
         }
-        at = l.span.end;
+        at = l.span.end();
     }
     assert_eq!(at, text.len(), "the lexemes stop before the end");
     // Line by line.
@@ -69,36 +69,41 @@ pub fn lexer(text: &str) {
     for (i, l) in lexemes.iter().enumerate() {
         if l.token == Token::Newline || i + 1 == lexemes.len() {
             let end = if l.token == Token::Newline {
-                l.span.start
+                l.span.start()
             } else {
-                l.span.end
+                l.span.end()
             };
             joined.extend(
                 lex(&text[start..end])
                     .into_iter()
-                    .map(|m| (m.token, m.span.start + start, m.span.end + start)),
+                    .map(|m| (m.token, m.span.start() + start, m.span.end() + start)),
             );
             if l.token == Token::Newline {
-                joined.push((l.token, l.span.start, l.span.end));
+                joined.push((l.token, l.span.start(), l.span.end()));
             }
-            start = l.span.end;
+            start = l.span.end();
         }
     }
     let whole: Vec<_> = lexemes
         .iter()
-        .map(|l| (l.token, l.span.start, l.span.end))
+        .map(|l| (l.token, l.span.start(), l.span.end()))
         .collect();
     assert_eq!(whole, joined, "lexing line by line differs");
 }
 
 fn check_equation(text: &str, eq: &Equation) {
-    assert_span(text, eq.span.start, eq.span.end, "equation");
-    assert_span(text, eq.arrow.span.start, eq.arrow.span.end, "arrow");
+    assert_span(text, eq.span.start(), eq.span.end(), "equation");
+    assert_span(text, eq.arrow.span.start(), eq.arrow.span.end(), "arrow");
     for t in eq.left.iter().chain(&eq.right) {
-        assert_span(text, t.span.start, t.span.end, "term");
-        assert_span(text, t.species.span.start, t.species.span.end, "species");
+        assert_span(text, t.span.start(), t.span.end(), "term");
+        assert_span(
+            text,
+            t.species.span.start(),
+            t.species.span.end(),
+            "species",
+        );
         if let Some(c) = &t.coefficient {
-            assert_span(text, c.span.start, c.span.end, "coefficient");
+            assert_span(text, c.span.start(), c.span.end(), "coefficient");
             assert!(*c.value.denom() > 0, "a coefficient with denominator {c:?}");
         }
     }
@@ -109,16 +114,16 @@ fn check_value(text: &str, kind: &ValueKind) {
         ValueKind::Quantity(q) => {
             let mut q = Some(q);
             while let Some(x) = q {
-                assert_span(text, x.number_span.start, x.number_span.end, "number");
+                assert_span(text, x.number_span.start(), x.number_span.end(), "number");
                 if let Some(u) = &x.unit {
-                    assert_span(text, u.span.start, u.span.end, "unit");
+                    assert_span(text, u.span.start(), u.span.end(), "unit");
                 }
                 q = x.at.as_deref();
             }
         }
         ValueKind::Arrhenius(args) => {
             for a in args {
-                assert_span(text, a.span.start, a.span.end, "argument");
+                assert_span(text, a.span.start(), a.span.end(), "argument");
                 check_value(text, &a.value.kind);
             }
         }
@@ -134,17 +139,22 @@ pub fn parser(text: &str) {
     let lines = LineIndex::new(text).line_count();
     let mut last_line: Option<usize> = None;
     for s in &file.statements {
-        assert_span(text, s.span.start, s.span.end, "statement");
-        assert_span(text, s.keyword.start, s.keyword.end, "keyword");
+        assert_span(text, s.span.start(), s.span.end(), "statement");
+        assert_span(text, s.keyword.start(), s.keyword.end(), "keyword");
         assert!(s.line <= s.last_line && s.last_line < lines, "{s:?}");
         if let Some(prev) = last_line {
             assert!(s.line > prev, "two statements share line {}", s.line);
         }
         last_line = Some(s.last_line);
         for a in &s.attributes {
-            assert_span(text, a.span.start, a.span.end, "attribute");
-            assert_span(text, a.name.span.start, a.name.span.end, "attribute name");
-            assert_span(text, a.value.span.start, a.value.span.end, "value");
+            assert_span(text, a.span.start(), a.span.end(), "attribute");
+            assert_span(
+                text,
+                a.name.span.start(),
+                a.name.span.end(),
+                "attribute name",
+            );
+            assert_span(text, a.value.span.start(), a.value.span.end(), "value");
             check_value(text, &a.value.kind);
         }
         match &s.kind {
@@ -153,32 +163,32 @@ pub fn parser(text: &str) {
                 equation: eq,
             } => {
                 if let Some(l) = label {
-                    assert_span(text, l.span.start, l.span.end, "label");
+                    assert_span(text, l.span.start(), l.span.end(), "label");
                 }
                 if let Some(eq) = eq {
                     check_equation(text, eq);
                 }
             }
             StatementKind::Use { path: Some(p) } => {
-                assert_span(text, p.span.start, p.span.end, "use")
+                assert_span(text, p.span.start(), p.span.end(), "use")
             }
             StatementKind::Species { alias, formula } => {
                 for n in alias.iter().chain(formula) {
-                    assert_span(text, n.span.start, n.span.end, "species name");
+                    assert_span(text, n.span.start(), n.span.end(), "species name");
                 }
             }
             StatementKind::Mixture { name: Some(n) } => {
-                assert_span(text, n.span.start, n.span.end, "mixture name")
+                assert_span(text, n.span.start(), n.span.end(), "mixture name")
             }
             _ => {}
         }
     }
     for c in &file.comments {
-        assert_span(text, c.span.start, c.span.end, "comment");
+        assert_span(text, c.span.start(), c.span.end(), "comment");
         assert!(text[c.span.range()].starts_with('#'), "{c:?}");
     }
     for e in &file.errors {
-        assert_span(text, e.span.start, e.span.end, "syntax error");
+        assert_span(text, e.span.start(), e.span.end(), "syntax error");
         assert!(!e.message.is_empty());
     }
     let again = stoik::syntax::parse(text);
@@ -194,7 +204,7 @@ pub fn parser(text: &str) {
         check_equation(first, eq);
     }
     for e in &errors {
-        assert_span(first, e.span.start, e.span.end, "equation error");
+        assert_span(first, e.span.start(), e.span.end(), "equation error");
     }
 }
 
@@ -212,7 +222,7 @@ pub fn analyse(text: &str) -> stoik::analysis::Analysis {
     let ws = &analysis.workspace;
     for d in &analysis.diagnostics {
         let f = ws.file(d.file);
-        assert_span(&f.text, d.span.start, d.span.end, d.rule);
+        assert_span(&f.text, d.span.start(), d.span.end(), d.rule);
         assert!(!d.message.is_empty(), "{d:?}");
         assert!(
             stoik::rules::RULES.iter().any(|r| r.id == d.rule),
@@ -221,12 +231,12 @@ pub fn analyse(text: &str) -> stoik::analysis::Analysis {
         );
         for r in &d.related {
             let g = ws.file(r.file);
-            assert_span(&g.text, r.span.start, r.span.end, "related");
+            assert_span(&g.text, r.span.start(), r.span.end(), "related");
         }
         for fix in &d.fixes {
             for e in &fix.edits {
                 let g = ws.file(e.file);
-                assert_span(&g.text, e.span.start, e.span.end, "fix edit");
+                assert_span(&g.text, e.span.start(), e.span.end(), "fix edit");
             }
         }
     }
@@ -265,8 +275,10 @@ pub fn checker(text: &str) {
         .collect();
     for fix in fixes {
         let mut edits: Vec<_> = fix.edits.iter().collect();
-        edits.sort_by_key(|e| std::cmp::Reverse((e.span.start, e.span.end)));
-        let disjoint = edits.windows(2).all(|w| w[1].span.end <= w[0].span.start);
+        edits.sort_by_key(|e| std::cmp::Reverse((e.span.start(), e.span.end())));
+        let disjoint = edits
+            .windows(2)
+            .all(|w| w[1].span.end() <= w[0].span.start());
         if !disjoint || edits.iter().any(|e| e.file != edits[0].file) {
             continue;
         }
@@ -306,7 +318,7 @@ pub fn format_roundtrip(text: &str) {
         let at_line_end = lexemes.get(i + 1).is_none_or(|n| n.token == Token::Newline);
         let piece = &once[l.span.range()];
         let bad = match l.token {
-            Token::Space => !(l.span.start == 0 && piece == "\u{feff}"),
+            Token::Space => !(l.span.start() == 0 && piece == "\u{feff}"),
             Token::Comment => piece.ends_with(is_space),
             _ => false,
         };

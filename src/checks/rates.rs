@@ -82,7 +82,7 @@ pub(super) fn check(lib: &Library, c: &Checked, out: &mut Vec<Diagnostic>) {
                         applicability: Applicability::Unsafe,
                         edits: vec![TextEdit {
                             file: k.number_loc.file,
-                            span: Span::empty(k.number_loc.span.end),
+                            span: Span::empty(k.number_loc.span.end()),
                             new_text: format!(" {unit}"),
                         }],
                     }),

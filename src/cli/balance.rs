@@ -13,7 +13,10 @@ pub fn run(equation: &str, format: DataFormat) -> i32 {
         eprintln!(
             "error: {} (at character {})",
             e.message,
-            equation[..e.span.start.min(equation.len())].chars().count() + 1
+            equation[..e.span.start().min(equation.len())]
+                .chars()
+                .count()
+                + 1
         );
         if let Some(h) = &e.help {
             eprintln!("help: {h}");

@@ -35,8 +35,8 @@ impl Style {
 pub fn render(d: &Diagnostic, ws: &Workspace, style: Style) -> String {
     let file = ws.file(d.file);
     let text = &file.text;
-    let start = file.index.position(text, d.span.start, Encoding::Utf32);
-    let end = file.index.position(text, d.span.end, Encoding::Utf32);
+    let start = file.index.position(text, d.span.start(), Encoding::Utf32);
+    let end = file.index.position(text, d.span.end(), Encoding::Utf32);
     let mut out = String::new();
     let _ = writeln!(
         out,
@@ -88,7 +88,7 @@ pub fn render(d: &Diagnostic, ws: &Workspace, style: Style) -> String {
     );
     for r in &d.related {
         let rf = ws.file(r.file);
-        let p = rf.index.position(&rf.text, r.span.start, Encoding::Utf32);
+        let p = rf.index.position(&rf.text, r.span.start(), Encoding::Utf32);
         let _ = writeln!(
             out,
             "{pad} {} note: {} ({}:{}:{})",

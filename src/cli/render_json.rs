@@ -117,8 +117,8 @@ pub struct JsonEdit {
 /// The 1-based region of a span of a file.
 pub fn region(ws: &Workspace, file: crate::span::FileId, span: crate::span::Span) -> Region {
     let f = ws.file(file);
-    let a = f.index.position(&f.text, span.start, Encoding::Utf32);
-    let b = f.index.position(&f.text, span.end, Encoding::Utf32);
+    let a = f.index.position(&f.text, span.start(), Encoding::Utf32);
+    let b = f.index.position(&f.text, span.end(), Encoding::Utf32);
     Region {
         line: a.line + 1,
         column: a.column + 1,

@@ -72,9 +72,9 @@ pub fn split_lines(text: &str, lexemes: &[Lexeme]) -> Vec<SourceLine> {
     let mut start = 0;
     for (i, l) in lexemes.iter().enumerate() {
         if l.token == Token::Newline {
-            lines.push(classify(text, lexemes, lo, i, start, l.span.start));
+            lines.push(classify(text, lexemes, lo, i, start, l.span.start()));
             lo = i + 1;
-            start = l.span.end;
+            start = l.span.end();
         }
     }
     lines.push(classify(
@@ -145,8 +145,8 @@ fn content_end(text: &str, line: &SourceLine, all: &[Lexeme]) -> usize {
         lexemes = rest;
     }
     match lexemes.last() {
-        Some(l) if l.token == Token::Comment => l.span.start + comment_text(text, l).len(),
-        Some(l) => l.span.end,
+        Some(l) if l.token == Token::Comment => l.span.start() + comment_text(text, l).len(),
+        Some(l) => l.span.end(),
         None => line.start,
     }
 }
@@ -210,11 +210,13 @@ impl Context<'_, '_> {
     /// reads tokens, not spaces, so any gap is safe there; inside a value
     /// only a run of blanks becoming one space is.
     fn gap_changed(&mut self, prev: Span, cur: Span, written: Option<&str>, new: &str) {
-        let i = self.values.partition_point(|v| v.span.start <= prev.start);
+        let i = self
+            .values
+            .partition_point(|v| v.span.start() <= prev.start());
         let Some(v) = i.checked_sub(1).map(|i| self.values[i]) else {
             return;
         };
-        if cur.end > v.span.end {
+        if cur.end() > v.span.end() {
             return;
         }
         let blanks = written.is_some_and(|g| g.chars().all(|c| c == ' ' || c == '\t'));

@@ -131,7 +131,7 @@ fn format_body(text: &str) -> String {
     let mut parsed_statements = parsed.statements.iter().peekable();
     for e in &parsed.errors {
         let line = starts
-            .partition_point(|&s| s <= e.span.start)
+            .partition_point(|&s| s <= e.span.start())
             .saturating_sub(1);
         if let Some(flag) = error_line.get_mut(line) {
             *flag = true;
@@ -198,7 +198,7 @@ fn value_spans(statement: &Statement) -> Vec<ValueSpan> {
             squashable: matches!(a.value.kind, ValueKind::Quantity(_) | ValueKind::Word(_)),
         })
         .collect();
-    spans.sort_by_key(|v| v.span.start);
+    spans.sort_by_key(|v| v.span.start());
     spans
 }
 

@@ -58,7 +58,7 @@ fn newline(text: &str) -> &'static str {
 }
 
 fn overlaps(d: &Diagnostic, span: crate::span::Span) -> bool {
-    d.span.start <= span.end && span.start <= d.span.end
+    d.span.start() <= span.end() && span.start() <= d.span.end()
 }
 
 /// The actions for `params.range` of the document.
@@ -104,7 +104,7 @@ pub fn code_actions(
             if d.rule == "unused-suppression" {
                 continue;
             }
-            if let Some(s) = statement_at(&source.syntax.statements, d.span.start) {
+            if let Some(s) = statement_at(&source.syntax.statements, d.span.start()) {
                 let line_start = source.index.line_start(s.line);
                 if let Some(edit) = insert(
                     snap,
@@ -168,7 +168,7 @@ pub fn fix_all(
         let clash = fix.edits.iter().any(|e| {
             taken
                 .iter()
-                .any(|t| e.span.start < t.end && t.start < e.span.end || e.span == *t)
+                .any(|t| e.span.start() < t.end() && t.start() < e.span.end() || e.span == *t)
         });
         if clash {
             continue;

@@ -68,7 +68,7 @@ impl<'a> Text<'a> {
     }
 
     pub fn range(&self, span: Span) -> lsp::Range {
-        lsp::Range::new(self.position(span.start), self.position(span.end))
+        lsp::Range::new(self.position(span.start()), self.position(span.end()))
     }
 
     pub fn offset(&self, position: lsp::Position) -> usize {

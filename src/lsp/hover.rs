@@ -58,7 +58,7 @@ pub fn hover(snap: &Snapshot, p: lsp::Position, encoding: Encoding) -> Option<ls
         .analysis
         .diagnostics
         .iter()
-        .filter(|d| d.file == snap.file && d.span.start <= offset && offset <= d.span.end)
+        .filter(|d| d.file == snap.file && d.span.start() <= offset && offset <= d.span.end())
     {
         if let Some(rule) = crate::rules::lookup(d.rule) {
             // Beside another item the rule gets one line; alone, its doc.
@@ -112,9 +112,9 @@ pub fn resolve(lib: &Library, name: &Name) -> Option<SpeciesId> {
 
 /// The reaction a statement lowered to.
 pub fn reaction_of<'l>(snap: &Snapshot, lib: &'l Library, s: &Statement) -> Option<&'l Reaction> {
-    lib.reactions
-        .iter()
-        .find(|r| r.statement_loc.file == snap.file && r.statement_loc.span.start == s.span.start)
+    lib.reactions.iter().find(|r| {
+        r.statement_loc.file == snap.file && r.statement_loc.span.start() == s.span.start()
+    })
 }
 
 fn phase_name(p: Option<Phase>) -> &'static str {

@@ -42,20 +42,20 @@ pub fn inlay_hints(snap: &Snapshot, range: lsp::Range, encoding: Encoding) -> Ve
     // Reactions are in file order within each file; find the first one
     // that can reach the range.
     let start = lib.reactions.partition_point(|r| {
-        r.statement_loc.file != snap.file || r.statement_loc.span.end < span.start
+        r.statement_loc.file != snap.file || r.statement_loc.span.end() < span.start()
     });
     let mut out = Vec::new();
     for r in lib.reactions[start..]
         .iter()
         .filter(|r| r.statement_loc.file == snap.file)
     {
-        if r.statement_loc.span.start > span.end {
+        if r.statement_loc.span.start() > span.end() {
             break;
         }
-        if r.statement_loc.span.end < span.start || !r.reversible() || !r.complete {
+        if r.statement_loc.span.end() < span.start() || !r.reversible() || !r.complete {
             continue;
         }
-        let at = text.position(r.equation_loc.span.end);
+        let at = text.position(r.equation_loc.span.end());
         out.push(hint(
             at,
             format!(
@@ -83,11 +83,14 @@ pub fn inlay_hints(snap: &Snapshot, range: lsp::Range, encoding: Encoding) -> Ve
             let Some(k) = p.k_index.and_then(|i| r.k.get(i)) else {
                 continue;
             };
-            if k.form == KForm::K || k.loc.span.end < span.start || k.loc.span.start > span.end {
+            if k.form == KForm::K
+                || k.loc.span.end() < span.start()
+                || k.loc.span.start() > span.end()
+            {
                 continue;
             }
             out.push(hint(
-                text.position(k.loc.span.end),
+                text.position(k.loc.span.end()),
                 format!(
                     "K({} K) = {}",
                     chemistry::number(p.t),
@@ -114,13 +117,16 @@ fn mixture_hints(
     let ws = snap.workspace();
     let statements = &snap.source().syntax.statements;
     for m in lib.mixtures.iter().filter(|m| m.loc.file == snap.file) {
-        if m.loc.span.end < span.start || m.loc.span.start > span.end {
+        if m.loc.span.end() < span.start() || m.loc.span.start() > span.end() {
             continue;
         }
         let Some(result) = crate::solve::solve_mixture(ws, lib, m) else {
             continue;
         };
-        let Some(statement) = statements.iter().find(|s| s.span.start == m.loc.span.start) else {
+        let Some(statement) = statements
+            .iter()
+            .find(|s| s.span.start() == m.loc.span.start())
+        else {
             continue;
         };
         if !result.converged {
@@ -129,7 +135,7 @@ fn mixture_hints(
                 .clone()
                 .unwrap_or_else(|| "the solver did not converge".into());
             out.push(hint(
-                text.position(statement.keyword.end),
+                text.position(statement.keyword.end()),
                 format!("no equilibrium: {why}"),
                 None,
             ));
@@ -147,7 +153,7 @@ fn mixture_hints(
                 continue;
             };
             out.push(hint(
-                text.position(attr.span.end),
+                text.position(attr.span.end()),
                 format!("⇌ {} {}", chemistry::number(s.equilibrium), s.unit),
                 Some(format!(
                     "equilibrium at {} K",

@@ -28,13 +28,13 @@ pub enum Item<'a> {
 
 /// The statement of a file that holds byte `offset`.
 pub fn statement_at(statements: &[Statement], offset: usize) -> Option<&Statement> {
-    let i = statements.partition_point(|s| s.span.start <= offset);
+    let i = statements.partition_point(|s| s.span.start() <= offset);
     let s = statements.get(i.checked_sub(1)?)?;
     s.span.contains(offset).then_some(s)
 }
 
 fn hit(span: Span, offset: usize) -> bool {
-    span.start <= offset && offset <= span.end && !span.is_empty()
+    span.start() <= offset && offset <= span.end() && !span.is_empty()
 }
 
 fn unit_at(q: &crate::syntax::ast::Quantity, offset: usize) -> Option<&Name> {
@@ -166,7 +166,7 @@ pub fn occurrences(ws: &Workspace, target: &Target) -> Vec<Occurrence> {
             }
         }
     }
-    out.sort_by_key(|o| (!o.declaration, o.file, o.span.start));
+    out.sort_by_key(|o| (!o.declaration, o.file, o.span.start()));
     out
 }
 

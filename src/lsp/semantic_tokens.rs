@@ -127,7 +127,7 @@ pub fn formula_pieces(text: &str) -> Vec<(Span, Class)> {
             out.push((Span::new(i, end), Class::Number));
         }
     }
-    out.sort_by_key(|(s, _)| s.start);
+    out.sort_by_key(|(s, _)| s.start());
     out
 }
 
@@ -149,7 +149,7 @@ fn attribute(
 ) {
     if name_class == Class::Element {
         for (s, c) in formula_pieces(&a.name.text) {
-            out.push((s.offset(a.name.span.start), c));
+            out.push((s.offset(a.name.span.start()), c));
         }
     } else {
         out.push((a.name.span, name_class));
@@ -188,7 +188,7 @@ pub fn classify(text: &str, syntax: &crate::syntax::ast::SourceFile) -> Vec<(Spa
                 }
                 if let Some(f) = formula {
                     for (sp, c) in formula_pieces(&f.text) {
-                        out.push((sp.offset(f.span.start), c));
+                        out.push((sp.offset(f.span.start()), c));
                     }
                 }
             }
@@ -206,7 +206,7 @@ pub fn classify(text: &str, syntax: &crate::syntax::ast::SourceFile) -> Vec<(Spa
                             out.push((c.span, Class::Number));
                         }
                         for (sp, c) in formula_pieces(&t.species.text) {
-                            out.push((sp.offset(t.species.span.start), c));
+                            out.push((sp.offset(t.species.span.start()), c));
                         }
                     }
                 }
@@ -226,11 +226,11 @@ pub fn classify(text: &str, syntax: &crate::syntax::ast::SourceFile) -> Vec<(Spa
         }
     }
     out.retain(|(s, _)| !s.is_empty());
-    out.sort_by_key(|(s, c)| (s.start, std::cmp::Reverse(s.end), *c));
+    out.sort_by_key(|(s, c)| (s.start(), std::cmp::Reverse(s.end()), *c));
     // Drop any span that starts inside the previous one.
     let mut clean: Vec<(Span, Class)> = Vec::with_capacity(out.len());
     for (s, c) in out {
-        if clean.last().is_some_and(|(p, _)| s.start < p.end) {
+        if clean.last().is_some_and(|(p, _)| s.start() < p.end()) {
             continue;
         }
         clean.push((s, c));
@@ -245,8 +245,8 @@ pub fn tokens(snap: &Snapshot, encoding: Encoding) -> lsp::SemanticTokens {
     let mut data = Vec::new();
     let (mut prev_line, mut prev_col) = (0u32, 0u32);
     for (span, class) in classify(&source.text, &source.syntax) {
-        let a = text.position(span.start);
-        let b = text.position(span.end);
+        let a = text.position(span.start());
+        let b = text.position(span.end());
         if a.line != b.line || b.character <= a.character {
             continue;
         }

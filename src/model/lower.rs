@@ -435,7 +435,8 @@ impl<'w> Lowering<'w> {
         match parse_formula(text) {
             Ok(_) => false,
             Err(e) => {
-                let at = crate::span::Span::new(span.start + e.span.start, span.start + e.span.end);
+                let at =
+                    crate::span::Span::new(span.start() + e.span.start, span.start() + e.span.end);
                 let rule = match e.kind {
                     FormulaErrorKind::UnknownElement => "unknown-element",
                     _ => "syntax",
@@ -952,7 +953,7 @@ impl<'w> Lowering<'w> {
         eq: &ast::Equation,
     ) -> Reaction {
         let label_loc = label.map(|l| Loc::new(file, l.span));
-        let header_end = eq.span.end;
+        let header_end = eq.span.end();
         // Each list is sized for the attributes that fill it, so that
         // pushing does not over-allocate and the shrinking below does not
         // copy (a library holds up to millions of them).
@@ -965,7 +966,7 @@ impl<'w> Lowering<'w> {
         let mut reaction = Reaction {
             label: label.map(|l| l.text.as_str().to_owned()),
             label_loc,
-            loc: Loc::new(file, crate::span::Span::new(s.keyword.start, header_end)),
+            loc: Loc::new(file, crate::span::Span::new(s.keyword.start(), header_end)),
             statement_loc: Loc::new(file, s.span),
             equation_loc: Loc::new(file, eq.span),
             arrow: eq.arrow.kind,

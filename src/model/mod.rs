@@ -239,7 +239,7 @@ impl Reaction {
             Some(l) => format!("`{l}`"),
             None => {
                 let f = lib_files.file(self.loc.file);
-                let line = f.index.line_of(self.loc.span.start) + 1;
+                let line = f.index.line_of(self.loc.span.start()) + 1;
                 format!("the reaction on line {line} of {}", f.display)
             }
         }

@@ -303,7 +303,7 @@ impl UnitReader {
                 applicability: Applicability::Unsafe,
                 edits: vec![TextEdit {
                     file: self.file,
-                    span: Span::empty(q.number_span.end),
+                    span: Span::empty(q.number_span.end()),
                     new_text: format!(" {assumed}"),
                 }],
             }),
@@ -315,7 +315,7 @@ impl UnitReader {
 
 /// A diagnostic for unit text that does not parse.
 fn unit_error(file: FileId, span: Span, e: &crate::units::UnitError) -> Diagnostic {
-    let at = Span::new(span.start + e.span.start, span.start + e.span.end);
+    let at = Span::new(span.start() + e.span.start, span.start() + e.span.end);
     let mut d = Diagnostic::new("syntax", file, at, e.message.clone());
     if let Some(s) = e.suggestions.first() {
         d = d.with_help(format!("did you mean `{s}`?"));

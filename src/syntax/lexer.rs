@@ -116,8 +116,8 @@ mod tests {
         let lexemes = lex(text);
         let mut at = 0;
         for l in &lexemes {
-            assert_eq!(l.span.start, at);
-            at = l.span.end;
+            assert_eq!(l.span.start(), at);
+            at = l.span.end();
         }
         assert_eq!(at, text.len());
     }

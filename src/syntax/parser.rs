@@ -272,7 +272,7 @@ impl<'t> Parser<'t> {
         match self.current.as_mut() {
             Some(statement) => {
                 if let Some(last) = tokens.last() {
-                    statement.span.end = statement.span.end.max(last.span.end);
+                    statement.span = statement.span.cover(last.span);
                 }
                 statement.last_line = line_no;
                 // Most statements have a few attribute lines: the first
@@ -304,7 +304,7 @@ impl<'t> Parser<'t> {
     fn header(&mut self, tokens: &[Lexeme], line_no: usize) {
         let first = tokens[0];
         let keyword = self.slice(first.span);
-        let end = tokens[tokens.len() - 1].span.end;
+        let end = tokens[tokens.len() - 1].span.end();
         let rest = &tokens[1..];
         let (kind, attributes) = match (first.token, keyword) {
             (Token::Word, "units") => (StatementKind::Units, self.attributes(rest, true)),
@@ -321,7 +321,7 @@ impl<'t> Parser<'t> {
         self.current = Some(Statement {
             kind,
             keyword: first.span,
-            span: Span::new(first.span.start, end),
+            span: Span::new(first.span.start(), end),
             line: line_no,
             last_line: line_no,
             attributes,
@@ -480,7 +480,7 @@ impl<'t> Parser<'t> {
                 if labelled {
                     let label = self.name(head[0].span);
                     self.error(
-                        Span::empty(label.span.end),
+                        Span::empty(label.span.end()),
                         format!(
                             "expected `:` after the label `{}`",
                             truncate(&label.text, 30)
@@ -493,7 +493,7 @@ impl<'t> Parser<'t> {
                     (Some(label), &head[1..])
                 } else {
                     self.error(
-                        Span::empty(keyword.end),
+                        Span::empty(keyword.end()),
                         "expected `:` before the equation",
                         Some("write `reaction: A <=> B` or `reaction LABEL: A <=> B`".into()),
                     );
@@ -504,7 +504,7 @@ impl<'t> Parser<'t> {
         let equation = if eq_tokens.is_empty() {
             let at = head.last().map(|l| l.span).unwrap_or(keyword);
             self.error(
-                Span::empty(at.end),
+                Span::empty(at.end()),
                 "the reaction has no equation",
                 Some("write the equation after `:`, for example `reaction: A <=> B`".into()),
             );
@@ -609,7 +609,7 @@ impl<'t> Parser<'t> {
             }
             None => {
                 self.error(
-                    Span::empty(name.span.end),
+                    Span::empty(name.span.end()),
                     format!("`{}` needs `= value`", truncate(&name.text, 30)),
                     None,
                 );
@@ -619,13 +619,13 @@ impl<'t> Parser<'t> {
         let value_tokens = &item[2..];
         let value = if value_tokens.is_empty() {
             self.error(
-                Span::empty(item[1].span.end),
+                Span::empty(item[1].span.end()),
                 format!("`{}` has no value after `=`", truncate(&name.text, 30)),
                 None,
             );
             Value {
                 kind: ValueKind::Missing,
-                span: Span::empty(item[1].span.end),
+                span: Span::empty(item[1].span.end()),
             }
         } else {
             if let Some(bad) = value_tokens
@@ -645,7 +645,7 @@ impl<'t> Parser<'t> {
             let span = value_tokens[0]
                 .span
                 .cover(value_tokens[value_tokens.len() - 1].span);
-            match parse_value(self.slice(span), span.start) {
+            match parse_value(self.slice(span), span.start()) {
                 Ok(v) => v,
                 Err(e) => {
                     self.file.errors.push(e);
@@ -670,15 +670,15 @@ impl<'t> Parser<'t> {
             if t.token == Token::Word
                 && self.slice(t.span).ends_with('-')
                 && t.span.len() > 1
-                && matches!(tokens.get(i + 1), Some(n) if n.token == Token::Gt && n.span.start == t.span.end)
+                && matches!(tokens.get(i + 1), Some(n) if n.token == Token::Gt && n.span.start() == t.span.end())
             {
                 items.push(Lexeme {
                     token: Token::Word,
-                    span: Span::new(t.span.start, t.span.end - 1),
+                    span: Span::new(t.span.start(), t.span.end() - 1),
                 });
                 items.push(Lexeme {
                     token: Token::Forward,
-                    span: Span::new(t.span.end - 1, t.span.end + 1),
+                    span: Span::new(t.span.end() - 1, t.span.end() + 1),
                 });
                 i += 2;
                 continue;
@@ -699,7 +699,7 @@ impl<'t> Parser<'t> {
             .collect();
         let span = match (items.first(), items.last()) {
             (Some(a), Some(b)) => a.span.cover(b.span),
-            _ => Span::empty(anchor.end),
+            _ => Span::empty(anchor.end()),
         };
         let Some(&at) = arrows.first() else {
             self.error(
@@ -742,9 +742,9 @@ impl<'t> Parser<'t> {
     fn side(&mut self, items: &[Lexeme], arrow: Span, which: &str) -> Option<Vec<Term>> {
         if items.is_empty() {
             let at = if which == "left" {
-                arrow.start
+                arrow.start()
             } else {
-                arrow.end
+                arrow.end()
             };
             self.error(
                 Span::empty(at),
@@ -775,7 +775,7 @@ impl<'t> Parser<'t> {
             }
             if text.starts_with('+') && text.len() > 1 {
                 self.error(
-                    Span::new(l.span.start, l.span.start + 1),
+                    Span::new(l.span.start(), l.span.start() + 1),
                     "the `+` that joins two terms needs whitespace on both sides",
                     Some("write `A + B`; a `+` touching a formula is read as a charge".into()),
                 );
@@ -807,7 +807,7 @@ impl<'t> Parser<'t> {
                 }
                 let prev = items[i - 1].span;
                 self.error(
-                    Span::new(prev.end, l.span.start),
+                    Span::new(prev.end(), l.span.start()),
                     "expected ` + ` between two terms",
                     Some(format!(
                         "write `{} + {}`; a `+` touching a formula is read as a charge",
@@ -842,7 +842,7 @@ impl<'t> Parser<'t> {
                 }
                 _ => {
                     self.error(
-                        Span::empty(l.span.end),
+                        Span::empty(l.span.end()),
                         format!(
                             "the coefficient `{}` has no species after it",
                             truncate(text, 20)
@@ -853,13 +853,13 @@ impl<'t> Parser<'t> {
                 }
             }
         } else if split > 0 {
-            let cspan = Span::new(l.span.start, l.span.start + split);
+            let cspan = Span::new(l.span.start(), l.span.start() + split);
             let coefficient = self.coefficient(&text[..split], cspan)?;
             Some(Term {
                 coefficient: Some(coefficient),
                 species: Name {
                     text: CompactString::from(&text[split..]),
-                    span: Span::new(cspan.end, l.span.end),
+                    span: Span::new(cspan.end(), l.span.end()),
                 },
                 span: l.span,
             })

@@ -147,17 +147,18 @@ impl Ranges {
     /// Those that start before `offset`.
     fn below(file: &SourceFile, offset: usize) -> Ranges {
         Ranges {
-            statements: 0..file.statements.partition_point(|s| s.span.start < offset),
-            comments: 0..file.comments.partition_point(|c| c.span.start < offset),
+            statements: 0..file.statements.partition_point(|s| s.span.start() < offset),
+            comments: 0..file.comments.partition_point(|c| c.span.start() < offset),
         }
     }
 
     /// Those that start at `offset` or after.
     fn from(file: &SourceFile, offset: usize) -> Ranges {
         Ranges {
-            statements: file.statements.partition_point(|s| s.span.start < offset)
+            statements: file.statements.partition_point(|s| s.span.start() < offset)
                 ..file.statements.len(),
-            comments: file.comments.partition_point(|c| c.span.start < offset)..file.comments.len(),
+            comments: file.comments.partition_point(|c| c.span.start() < offset)
+                ..file.comments.len(),
         }
     }
 }
@@ -190,7 +191,7 @@ fn copy(
 fn errors(file: &SourceFile, starts: std::ops::Range<usize>, moved: Move) -> Vec<SyntaxError> {
     file.errors
         .iter()
-        .filter(|e| starts.contains(&e.span.start))
+        .filter(|e| starts.contains(&e.span.start()))
         .map(|e| SyntaxError {
             span: moved.span(e.span),
             ..e.clone()
@@ -210,8 +211,8 @@ impl Move {
 
     fn span(self, span: Span) -> Span {
         Span::new(
-            span.start.wrapping_add_signed(self.bytes),
-            span.end.wrapping_add_signed(self.bytes),
+            span.start().wrapping_add_signed(self.bytes),
+            span.end().wrapping_add_signed(self.bytes),
         )
     }
 

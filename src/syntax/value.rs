@@ -259,7 +259,7 @@ mod tests {
         };
         assert_eq!(args.len(), 3);
         assert_eq!(
-            &text[args[2].name.span.start - 10..args[2].name.span.end - 10],
+            &text[args[2].name.span.start() - 10..args[2].name.span.end() - 10],
             "Ea"
         );
     }

@@ -208,7 +208,7 @@ mod tests {
             lib.species
                 .iter()
                 .find(|sp| sp.name == "CO(g)")
-                .map(|sp| sp.first_use.span.start)
+                .map(|sp| sp.first_use.span.start())
         };
         assert_eq!(co(&comment), co(&values).map(|at| at + "# top\n".len()));
         let renamed = analyse(&text.replace("CO(g) +", "CO(aq) +"), 4, Some(&comment));
