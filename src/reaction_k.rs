@@ -125,11 +125,13 @@ pub struct ReactionK {
     /// From the reaction's dG values.
     pub gibbs: Vec<Point>,
     /// From dH and dS at the dH temperature.
-    pub enthalpy_entropy: Option<Point>,
+    /// Boxed, as is `species`: most reactions of a large library have
+    /// neither, and inline they made every K model 96 bytes larger.
+    pub enthalpy_entropy: Option<Box<Point>>,
     /// From kf/kr pairs.
     pub rates: Vec<Point>,
     /// From species formation data at 298.15 K.
-    pub species: Option<Point>,
+    pub species: Option<Box<Point>>,
     /// ΔH° (J/mol) at `dh_t`, and where it came from.
     pub dh: Option<(f64, f64, EnthalpyOrigin)>,
     /// ΔrH° from species dHf alone, when every species has it.
@@ -364,13 +366,13 @@ impl ReactionK {
             None => species_dh.map(|v| (v, STANDARD_TEMPERATURE, EnthalpyOrigin::Species)),
         };
         let enthalpy_entropy = match (r.dh.first(), stated_ds) {
-            (Some(h), Some(s)) => Some(Point {
+            (Some(h), Some(s)) => Some(Box::new(Point {
                 t: h.at_k,
                 ln_k: ln_k_from_dh_ds(h.value, s, h.at_k),
                 origin: Origin::EnthalpyEntropy,
                 loc: h.loc,
                 k_index: None,
-            }),
+            })),
             _ => None,
         };
         let species = match (species_dg, species_dh, species_s) {
@@ -382,12 +384,14 @@ impl ReactionK {
             _ => None,
         }
         .filter(|_| has_species_data(lib, r))
-        .map(|(ln_k, origin)| Point {
-            t: STANDARD_TEMPERATURE,
-            ln_k,
-            origin,
-            loc: r.loc,
-            k_index: None,
+        .map(|(ln_k, origin)| {
+            Box::new(Point {
+                t: STANDARD_TEMPERATURE,
+                ln_k,
+                origin,
+                loc: r.loc,
+                k_index: None,
+            })
         });
         let mut rates = Vec::new();
         let forward: Vec<_> = r
@@ -560,7 +564,7 @@ impl ReactionK {
                 carried: true,
             });
         }
-        let p = self.species?;
+        let p = *self.species.as_deref()?;
         if let (Some((dh, _, EnthalpyOrigin::Species)), Some(ds)) = (self.dh, self.ds)
             && p.origin == Origin::SpeciesEnthalpyEntropy
         {

@@ -32,8 +32,8 @@ pub(super) fn check(
     // Energy-based references: the reaction's dG values, dH with dS, and the
     // species' formation data.
     let mut references: Vec<Point> = k.gibbs.clone();
-    references.extend(k.enthalpy_entropy);
-    references.extend(k.species);
+    references.extend(k.enthalpy_entropy.as_deref());
+    references.extend(k.species.as_deref());
     let mut compared_any = false;
     for p in &k.stated {
         for reference in &references {
