@@ -360,7 +360,14 @@ impl Scratch {
     /// The nonzero entries of the fast path's vector, clearing it.
     fn drain_integers(&mut self) -> Vec<(u32, Q)> {
         let d = std::mem::replace(&mut self.denominator, 1);
-        let mut out = Vec::with_capacity(self.integer_touched.len());
+        // Sized exactly: the vector becomes a basis vector, kept to the
+        // end, and a dependent reaction's empty rest allocates nothing.
+        let nonzero = self
+            .integer_touched
+            .iter()
+            .filter(|&&s| self.integers[s as usize] != 0)
+            .count();
+        let mut out = Vec::with_capacity(nonzero);
         for s in self.integer_touched.drain(..) {
             let i = s as usize;
             self.set[i] = false;
@@ -374,7 +381,12 @@ impl Scratch {
 
     /// The nonzero entries of the work vector, clearing it.
     fn drain(&mut self) -> Vec<(u32, Q)> {
-        let mut out = Vec::with_capacity(self.touched.len());
+        let nonzero = self
+            .touched
+            .iter()
+            .filter(|&&s| self.work[s as usize].as_ref().is_some_and(|q| !q.is_zero()))
+            .count();
+        let mut out = Vec::with_capacity(nonzero);
         for s in self.touched.drain(..) {
             if let Some(q) = self.work[s as usize].take()
                 && !q.is_zero()
