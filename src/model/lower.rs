@@ -5,9 +5,9 @@
 //! and the per-statement checks that need nothing but the statement itself
 //! run: formulas, arrows, the third body and element and charge balance.
 //!
-//! Species are numbered in the order they are first met, so names, labels
-//! and mixtures are read statement by statement; what remains of each
-//! reaction (its balance, its data and their units) depends only on the
+//! Species are numbered in the order they are first met, so names and
+//! mixtures are read statement by statement; what remains of each reaction
+//! (its label, its balance, its data and their units) depends only on the
 //! statement and the species, and is read on every core.
 
 use super::quantity::{Kind, UnitReader};
@@ -23,6 +23,7 @@ use compact_str::CompactString;
 use rustc_hash::FxHashMap as HashMap;
 use std::sync::Arc;
 
+mod labels;
 mod numbering;
 pub use numbering::Numbering;
 
@@ -113,7 +114,6 @@ fn lower_with(
         aliases: HashMap::default(),
         by_key: Arc::default(),
         by_text: Arc::default(),
-        labels: HashMap::default(),
         ahead: Vec::new(),
         taken: 0,
     };
@@ -127,11 +127,12 @@ fn lower_with(
             }
         }
     }
-    // Names, labels and mixtures are read in statement order, since species
-    // are numbered as they are first met. The rest of each reaction (its
-    // places and its data) depends on nothing but the statement, and is
-    // read meanwhile on another core (large libraries); the terms join it
-    // afterwards, when the balance is checked on every core.
+    // Names and mixtures are read in statement order, since species are
+    // numbered as they are first met. The rest of each reaction (its places,
+    // its data and whether its label was used before) depends on nothing
+    // but the statements, and is read meanwhile on another core (large
+    // libraries); the terms join it afterwards, when the balance is checked
+    // on every core.
     let clock = crate::checks::Phases::start();
     let aside = crate::parallel::cores() > 1 && count >= PARALLEL_REACTIONS;
     let (ws, config, readers) = (l.ws, l.config, &readers);
@@ -143,9 +144,8 @@ fn lower_with(
             for s in &ws.file(file).syntax.statements {
                 match &s.kind {
                     StatementKind::Reaction {
-                        label,
-                        equation: Some(eq),
-                    } => heads.push(l.reaction_head(file, label.as_ref(), eq)),
+                        equation: Some(eq), ..
+                    } => heads.push(l.reaction_head(file, eq)),
                     StatementKind::Mixture { name } => {
                         l.mixture_statement(file, reader, s, name.as_ref())
                     }
@@ -199,7 +199,6 @@ struct Lowering<'w> {
     /// Resolution of each species text met so far (`None` when it failed),
     /// shared likewise.
     by_text: Arc<HashMap<CompactString, Option<SpeciesId>>>,
-    labels: HashMap<CompactString, Loc>,
     /// Every species text of the equations and mixtures in statement
     /// order, with what it names once numbered, for [`Lowering::resolve`]
     /// to take in turn instead of looking each up.
@@ -351,7 +350,6 @@ impl<'w> Lowering<'w> {
             aliases: HashMap::default(),
             by_key: Arc::default(),
             by_text: Arc::default(),
-            labels: HashMap::default(),
             ahead: Vec::new(),
             taken: 0,
         }
@@ -398,31 +396,26 @@ impl<'w> Lowering<'w> {
         reader
     }
 
-    /// Size the declared species and the labels for the statements of
+    /// Size the declared species for the statements of
     /// `files` up front, and count the reactions: on large libraries,
     /// growing them step by step copied and rehashed them over and over.
     /// The species the equations name are sized once they are read
     /// ([`Lowering::settle_names_ahead`]).
     fn reserve(&mut self, files: &[FileId]) -> usize {
-        let (mut species, mut reactions, mut labels) = (0, 0, 0);
+        let (mut species, mut reactions) = (0, 0);
         for &file in files {
             for s in &self.ws.file(file).syntax.statements {
                 match &s.kind {
                     StatementKind::Species { .. } => species += 1,
                     StatementKind::Reaction {
-                        equation: Some(_),
-                        label,
-                    } => {
-                        reactions += 1;
-                        labels += usize::from(label.is_some());
-                    }
+                        equation: Some(_), ..
+                    } => reactions += 1,
                     _ => {}
                 }
             }
         }
         self.lib.species.reserve(species);
         Arc::make_mut(&mut self.by_key).reserve(species);
-        self.labels.reserve(labels);
         reactions
     }
 
@@ -893,30 +886,9 @@ impl<'w> Lowering<'w> {
         }
     }
 
-    /// The part of a reaction statement read in statement order: its label
-    /// and its species.
-    fn reaction_head<'s>(
-        &mut self,
-        file: FileId,
-        label: Option<&'s ast::Name>,
-        eq: &'s ast::Equation,
-    ) -> ReactionHead<'s> {
-        if let Some(l) = label {
-            if let Some(prev) = self.labels.get(&l.text).copied() {
-                self.push(
-                    Diagnostic::new(
-                        "duplicate-label",
-                        file,
-                        l.span,
-                        format!("the label `{}` is used twice", l.text),
-                    )
-                    .with_related(prev.file, prev.span, "first used here")
-                    .with_help("labels are unique in a file and the files it uses"),
-                );
-            } else {
-                self.labels.insert(l.text.clone(), Loc::new(file, l.span));
-            }
-        }
+    /// The part of a reaction statement read in statement order: its
+    /// species.
+    fn reaction_head<'s>(&mut self, file: FileId, eq: &'s ast::Equation) -> ReactionHead<'s> {
         let mut terms = Vec::with_capacity(eq.left.len() + eq.right.len());
         let mut complete = true;
         for (side, list) in [(Side::Left, &eq.left), (Side::Right, &eq.right)] {
@@ -1034,6 +1006,20 @@ impl<'w> Lowering<'w> {
                 }
             }
         }
+        let used = files.iter().flat_map(|&file| {
+            ws.file(file)
+                .syntax
+                .statements
+                .iter()
+                .filter_map(move |s| match &s.kind {
+                    StatementKind::Reaction {
+                        label: Some(l),
+                        equation: Some(_),
+                    } => Some((file, l)),
+                    _ => None,
+                })
+        });
+        worker.diags.extend(labels::duplicate_labels(used));
         (shells, worker.diags)
     }
 
