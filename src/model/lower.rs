@@ -302,10 +302,13 @@ fn first_met<'a>(
     aliases: &HashMap<CompactString, SpeciesId>,
     statements: &[(FileId, &'a Statement)],
 ) -> (Vec<(FileId, &'a ast::Name)>, Vec<Occurrence<'a>>) {
-    // Sized for a library whose reactions name two new species each and
-    // three in all, so that growing them rarely rehashes or copies.
+    // The lists are sized for a library whose reactions name two new
+    // species each and three in all, so that growing them rarely copies.
+    // The map of texts grows with the distinct texts instead: sized for
+    // the worst case, its lookups scattered over tens of megabytes on a
+    // large library (which names far fewer species than that) and missed
+    // the caches.
     let mut seen: HashMap<&str, u32> = HashMap::default();
-    seen.reserve(2 * statements.len());
     let mut out = Vec::with_capacity(2 * statements.len());
     let mut occurrences = Vec::with_capacity(3 * statements.len());
     let mut meet = |file: FileId, name: &'a ast::Name| {
