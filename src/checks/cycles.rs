@@ -164,7 +164,15 @@ const BLAME_ROUNDS: usize = 64;
 /// cycle gives no reason to prefer any of its members.
 fn blame(failures: &[Failure], reactions: usize, rel: f64) -> (Vec<Culprit>, Vec<usize>) {
     let mut miss: Vec<f64> = failures.iter().map(|f| f.ln_k - f.predicted).collect();
-    let open = |miss: &[f64], f: usize| miss[f].abs() > tolerance(failures[f].predicted, rel);
+    // Each failure's tolerance, computed once and kept beside the misses:
+    // the rounds look both up for every cycle through every reaction, and
+    // reading them from the failures themselves missed the caches on large
+    // libraries.
+    let tolerances: Vec<f64> = failures
+        .iter()
+        .map(|f| tolerance(f.predicted, rel))
+        .collect();
+    let open = |miss: &[f64], f: usize| miss[f].abs() > tolerances[f];
     let mut culprits: Vec<Culprit> = Vec::new();
     let through = Through::new(failures, reactions);
     let mut accepted = vec![false; reactions];
@@ -360,11 +368,14 @@ pub(super) fn check(
     memory: Option<Option<&CycleMemo>>,
     out: &mut Vec<Diagnostic>,
 ) -> Option<CycleMemo> {
+    // Its steps, for `STOIK_PROFILE` (within the phase of the cycle check).
+    let clock = super::Phases::start();
     let reversible: Vec<&Checked> = checked.iter().filter(|c| c.reaction.reversible()).collect();
     if reversible.len() < 3 {
         return None;
     }
     let (t, ln_k_at_t) = reference_temperature(&reversible);
+    clock.mark("cycle reference temperature");
     // What each reaction is added with: its net vector and ln K.
     let inputs: Vec<Input> = reversible
         .iter()
@@ -445,6 +456,7 @@ pub(super) fn check(
         }
         candidates.push((i, dependence, value));
     }
+    clock.mark("cycle elimination");
     // Only a failing cycle is expanded into its members, on every core
     // once the finder is complete; the predicted value is taken again from
     // them, exactly as the message shows it.
@@ -467,7 +479,9 @@ pub(super) fn check(
         })
     });
     failures.extend(expanded.into_iter().flatten());
+    clock.mark("failing cycles expanded");
     let (culprits, unexplained) = blame(&failures, reversible.len(), rel);
+    clock.mark("cycle blame");
     out.extend(crate::parallel::map_in_order(&culprits, 16, |culprit| {
         report(ws, &reversible, &ln_k, t, &failures, culprit)
     }));
