@@ -8,13 +8,15 @@
 use crate::support::{comments, meaning, significant_tokens};
 use std::path::PathBuf;
 use stoik::config::Config;
+use stoik::span::Span;
 use stoik::syntax::ast::{Equation, SourceFile, StatementKind, ValueKind};
 use stoik::syntax::lexer::{Token, lex};
 use stoik::syntax::line_index::{Encoding, LineIndex, Position};
 use stoik::workspace::{Overlay, Workspace};
 
 /// A span lies inside `text` and on character boundaries.
-fn assert_span(text: &str, start: usize, end: usize, what: &str) {
+fn assert_span(text: &str, span: Span, what: &str) {
+    let (start, end) = (span.start(), span.end());
     assert!(start <= end, "{what}: span {start}..{end} runs backwards");
     assert!(
         end <= text.len(),
@@ -35,7 +37,7 @@ pub fn lexer(text: &str) {
     for l in &lexemes {
         assert_eq!(l.span.start(), at, "a gap or overlap before {l:?}");
         assert!(l.span.end() > l.span.start(), "an empty lexeme {l:?}");
-        assert_span(text, l.span.start(), l.span.end(), "lexeme");
+        assert_span(text, l.span, "lexeme");
         let piece = &text[l.span.range()];
         match l.token {
             Token::Newline => assert!(matches!(piece, "\n" | "\r\n" | "\r"), "{piece:?}"),
@@ -92,18 +94,13 @@ pub fn lexer(text: &str) {
 }
 
 fn check_equation(text: &str, eq: &Equation) {
-    assert_span(text, eq.span.start(), eq.span.end(), "equation");
-    assert_span(text, eq.arrow.span.start(), eq.arrow.span.end(), "arrow");
+    assert_span(text, eq.span, "equation");
+    assert_span(text, eq.arrow.span, "arrow");
     for t in eq.left.iter().chain(&eq.right) {
-        assert_span(text, t.span.start(), t.span.end(), "term");
-        assert_span(
-            text,
-            t.species.span.start(),
-            t.species.span.end(),
-            "species",
-        );
+        assert_span(text, t.span, "term");
+        assert_span(text, t.species.span, "species");
         if let Some(c) = &t.coefficient {
-            assert_span(text, c.span.start(), c.span.end(), "coefficient");
+            assert_span(text, c.span, "coefficient");
             assert!(*c.value.denom() > 0, "a coefficient with denominator {c:?}");
         }
     }
@@ -114,16 +111,16 @@ fn check_value(text: &str, kind: &ValueKind) {
         ValueKind::Quantity(q) => {
             let mut q = Some(q);
             while let Some(x) = q {
-                assert_span(text, x.number_span.start(), x.number_span.end(), "number");
+                assert_span(text, x.number_span, "number");
                 if let Some(u) = &x.unit {
-                    assert_span(text, u.span.start(), u.span.end(), "unit");
+                    assert_span(text, u.span, "unit");
                 }
                 q = x.at.as_deref();
             }
         }
         ValueKind::Arrhenius(args) => {
             for a in args {
-                assert_span(text, a.span.start(), a.span.end(), "argument");
+                assert_span(text, a.span, "argument");
                 check_value(text, &a.value.kind);
             }
         }
@@ -139,22 +136,17 @@ pub fn parser(text: &str) {
     let lines = LineIndex::new(text).line_count();
     let mut last_line: Option<usize> = None;
     for s in &file.statements {
-        assert_span(text, s.span.start(), s.span.end(), "statement");
-        assert_span(text, s.keyword.start(), s.keyword.end(), "keyword");
+        assert_span(text, s.span, "statement");
+        assert_span(text, s.keyword, "keyword");
         assert!(s.line <= s.last_line && s.last_line < lines, "{s:?}");
         if let Some(prev) = last_line {
             assert!(s.line > prev, "two statements share line {}", s.line);
         }
         last_line = Some(s.last_line);
         for a in &s.attributes {
-            assert_span(text, a.span.start(), a.span.end(), "attribute");
-            assert_span(
-                text,
-                a.name.span.start(),
-                a.name.span.end(),
-                "attribute name",
-            );
-            assert_span(text, a.value.span.start(), a.value.span.end(), "value");
+            assert_span(text, a.span, "attribute");
+            assert_span(text, a.name.span, "attribute name");
+            assert_span(text, a.value.span, "value");
             check_value(text, &a.value.kind);
         }
         match &s.kind {
@@ -163,32 +155,28 @@ pub fn parser(text: &str) {
                 equation: eq,
             } => {
                 if let Some(l) = label {
-                    assert_span(text, l.span.start(), l.span.end(), "label");
+                    assert_span(text, l.span, "label");
                 }
                 if let Some(eq) = eq {
                     check_equation(text, eq);
                 }
             }
-            StatementKind::Use { path: Some(p) } => {
-                assert_span(text, p.span.start(), p.span.end(), "use")
-            }
+            StatementKind::Use { path: Some(p) } => assert_span(text, p.span, "use"),
             StatementKind::Species { alias, formula } => {
                 for n in alias.iter().chain(formula) {
-                    assert_span(text, n.span.start(), n.span.end(), "species name");
+                    assert_span(text, n.span, "species name");
                 }
             }
-            StatementKind::Mixture { name: Some(n) } => {
-                assert_span(text, n.span.start(), n.span.end(), "mixture name")
-            }
+            StatementKind::Mixture { name: Some(n) } => assert_span(text, n.span, "mixture name"),
             _ => {}
         }
     }
     for c in &file.comments {
-        assert_span(text, c.span.start(), c.span.end(), "comment");
+        assert_span(text, c.span, "comment");
         assert!(text[c.span.range()].starts_with('#'), "{c:?}");
     }
     for e in &file.errors {
-        assert_span(text, e.span.start(), e.span.end(), "syntax error");
+        assert_span(text, e.span, "syntax error");
         assert!(!e.message.is_empty());
     }
     let again = stoik::syntax::parse(text);
@@ -204,7 +192,7 @@ pub fn parser(text: &str) {
         check_equation(first, eq);
     }
     for e in &errors {
-        assert_span(first, e.span.start(), e.span.end(), "equation error");
+        assert_span(first, e.span, "equation error");
     }
 }
 
@@ -222,7 +210,7 @@ pub fn analyse(text: &str) -> stoik::analysis::Analysis {
     let ws = &analysis.workspace;
     for d in &analysis.diagnostics {
         let f = ws.file(d.file);
-        assert_span(&f.text, d.span.start(), d.span.end(), d.rule);
+        assert_span(&f.text, d.span, d.rule);
         assert!(!d.message.is_empty(), "{d:?}");
         assert!(
             stoik::rules::RULES.iter().any(|r| r.id == d.rule),
@@ -231,12 +219,12 @@ pub fn analyse(text: &str) -> stoik::analysis::Analysis {
         );
         for r in &d.related {
             let g = ws.file(r.file);
-            assert_span(&g.text, r.span.start(), r.span.end(), "related");
+            assert_span(&g.text, r.span, "related");
         }
         for fix in &d.fixes {
             for e in &fix.edits {
                 let g = ws.file(e.file);
-                assert_span(&g.text, e.span.start(), e.span.end(), "fix edit");
+                assert_span(&g.text, e.span, "fix edit");
             }
         }
     }
