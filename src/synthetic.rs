@@ -220,3 +220,29 @@ pub fn edit_benchmark_library(reactions: usize) -> String {
     s.push_str("\nmixture feed\n  temperature = 800 K\n  C1H4(g) = 1 mol/L\n  C1H2(g) = 0 mol/L\n  H2(g) = 0 mol/L\n");
     s
 }
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    /// Past the 857,964 reactions the first bound on pooled species allowed,
+    /// the library still has as many reactions as asked for, each pair of
+    /// species joined once.
+    #[test]
+    fn a_large_library_has_the_reactions_asked_for() {
+        let asked = 900_000;
+        let generated = generate(&Recipe {
+            reactions: asked,
+            mistakes: 0.0,
+            files: 1,
+            seed: 42,
+        });
+        assert_eq!(generated.reactions, asked);
+        let written = generated
+            .files
+            .iter()
+            .map(|(_, text)| text.matches("\nreaction r").count())
+            .sum::<usize>();
+        assert_eq!(written, asked);
+    }
+}
