@@ -126,7 +126,7 @@ pub struct ReactionK {
     pub gibbs: Vec<Point>,
     /// From dH and dS at the dH temperature.
     /// Boxed, as is `species`: most reactions of a large library have
-    /// neither, and inline they made every K model 96 bytes larger.
+    /// neither, and inline they made every K model 80 bytes larger.
     pub enthalpy_entropy: Option<Box<Point>>,
     /// From kf/kr pairs.
     pub rates: Vec<Point>,
