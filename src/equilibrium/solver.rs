@@ -28,6 +28,11 @@ use super::stoichiometry::{
 /// as saturated rather than forming.
 const SATURATION_TOLERANCE: f64 = 1e-9;
 
+/// The most condensed species whose sets [`Solver::search_sets`] tries
+/// one by one (2^12 sets), when the search that adds and drops one species
+/// at a time cycles.
+const MAX_SEARCHED_CONDENSED: usize = 12;
+
 /// Solves the equilibrium of `problem`. Never panics: input it cannot give a
 /// meaning gets a non-converged [`Solution`] whose `why` says what is wrong.
 pub fn solve(problem: &Problem) -> Solution {
@@ -303,16 +308,7 @@ impl<'a> Solver<'a> {
                     }
                 }
             }
-            let unknowns: Vec<usize> = (0..s).filter(|&i| present[i]).collect();
-            let balances = self.balances(&unknowns, &state, false);
-            let mut system = System {
-                problem,
-                unknowns,
-                actions,
-                balances,
-                amount_scale: self.amount_scale(),
-                homotopy: 1.0,
-            };
+            let mut system = self.system(problem, &present, actions, &state);
             let before = state.clone();
             let mut result = system.solve_robust(&mut state);
             if matches!(result, Err(Failure::Stopped(_))) {
@@ -370,9 +366,24 @@ impl<'a> Solver<'a> {
                 }
             }
             if !converged_sets.insert(present.clone()) {
-                outcome = Err(
-                    "the set of present condensed species did not settle (it cycled)".to_string(),
-                );
+                // Adding and dropping one species at a time came back to a
+                // set it had left; every set of the condensed species is
+                // tried instead, smallest first, for the one whose solution
+                // keeps its species present and forms no other.
+                match self.search_sets(problem, &present, &origin) {
+                    Some((set, found, actions, k)) => {
+                        present = set;
+                        state = found;
+                        iterations += k;
+                        outcome = Ok(actions);
+                    }
+                    None => {
+                        outcome = Err(
+                            "the set of present condensed species did not settle (it cycled)"
+                                .to_string(),
+                        );
+                    }
+                }
                 break;
             }
             // A present condensed species with a negative amount is used up.
@@ -439,6 +450,90 @@ impl<'a> Solver<'a> {
             }
         }
         self.finish(state, present, used, iterations, outcome)
+    }
+
+    /// The equations of one set of present species, with the conservation
+    /// laws taken at `state`.
+    fn system(
+        &self,
+        problem: &'a Problem,
+        present: &[bool],
+        actions: Vec<Action>,
+        state: &State,
+    ) -> System<'a> {
+        let unknowns: Vec<usize> = (0..present.len()).filter(|&i| present[i]).collect();
+        let balances = self.balances(&unknowns, state, false);
+        System {
+            problem,
+            unknowns,
+            actions,
+            balances,
+            amount_scale: self.amount_scale(),
+            homotopy: 1.0,
+        }
+    }
+
+    /// The equilibrium found by trying every set of the condensed species
+    /// that can form (up to [`MAX_SEARCHED_CONDENSED`] of them), fewest
+    /// first, each from `origin`: the first set whose solution has no
+    /// present condensed species below zero and no absent one that would
+    /// form, the same tests the one-at-a-time search ends on. `present`
+    /// gives the fluid species.
+    fn search_sets(
+        &self,
+        problem: &Problem,
+        present: &[bool],
+        origin: &State,
+    ) -> Option<(Vec<bool>, State, Vec<Action>, usize)> {
+        let s = problem.species.len();
+        let candidates: Vec<usize> = (0..s)
+            .filter(|&i| self.is_condensed(i) && self.reacting[i] && self.reach[i])
+            .collect();
+        if candidates.len() > MAX_SEARCHED_CONDENSED {
+            return None;
+        }
+        let mut masks: Vec<u32> = (0..1u32 << candidates.len()).collect();
+        masks.sort_by_key(|m| (m.count_ones(), *m));
+        let total: f64 = self.initial.iter().sum();
+        for mask in masks {
+            let mut set = present.to_vec();
+            for (bit, &i) in candidates.iter().enumerate() {
+                set[i] = mask & (1 << bit) != 0;
+            }
+            let actions = self.actions(&set);
+            if self.condensed_only(&actions).is_some() {
+                continue;
+            }
+            let mut state = origin.clone();
+            for (i, &here) in set.iter().enumerate() {
+                if self.is_condensed(i) && !here {
+                    state.set_amount(i, 0.0);
+                }
+            }
+            let mut system = self.system(problem, &set, actions, &state);
+            let Ok(k) = system.solve_robust(&mut state) else {
+                continue;
+            };
+            let negative = candidates
+                .iter()
+                .any(|&i| set[i] && state.n[i] < -1e-13 * total);
+            let forming = candidates.iter().any(|&i| {
+                !set[i]
+                    && self
+                        .driving_force(i, &set, &state)
+                        .is_some_and(|d| d > SATURATION_TOLERANCE)
+            });
+            if negative || forming {
+                continue;
+            }
+            for &i in &candidates {
+                if set[i] && state.n[i] < 0.0 {
+                    state.set_amount(i, 0.0);
+                }
+            }
+            return Some((set, state, system.actions, k));
+        }
+        None
     }
 
     /// The mass-action laws that must hold with this set of present species:

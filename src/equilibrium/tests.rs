@@ -682,3 +682,113 @@ fn a_gas_used_up_by_a_solid_leaves_the_others_unformed() {
     // P2 would need p(C5) p(C0) p(C1) = e^-51.97; the mixture is far below.
     assert!(ln_p(5) + ln_p(0) + ln_p(1) < -51.96874007371036);
 }
+
+/// A case the property test `well_posed_problems_converge` found in
+/// session 9: four product solids at constant volume, three of them
+/// present at the start, the gas C0 at a trace.
+fn cycling_solids_problem() -> Problem {
+    let gas = |n: &str, x: f64| species(n, Phase::Gas, 0, x);
+    let solid = |n: &str, x: f64| species(n, Phase::Condensed, 0, x);
+    let rx = |label: &str, stoich: Vec<(usize, f64)>, ln_k: f64| Reaction {
+        label: label.into(),
+        stoich,
+        ln_k,
+    };
+    Problem {
+        species: vec![
+            gas("C0", 1e-6),
+            gas("C1", 0.7983715025008311),
+            gas("C2", 0.8070101583539309),
+            gas("C3", 4.558253011903249),
+            gas("P0", 0.0),
+            solid("P1", 0.598863173118131),
+            solid("P2", 0.26845860157890816),
+            solid("P3", 1.0786623329463765),
+            gas("P4", 0.0),
+            solid("P5", 0.19547495359469128),
+        ],
+        reactions: vec![
+            rx("r0", vec![(4, 1.0), (2, -1.0), (0, -1.0)], 0.0),
+            rx(
+                "r1",
+                vec![(5, 1.0), (1, -1.0), (2, -1.0)],
+                149.84461409348802,
+            ),
+            rx(
+                "r2",
+                vec![(6, 1.0), (2, -1.0), (2, -1.0), (0, -1.0)],
+                146.01663515951626,
+            ),
+            rx(
+                "r3",
+                vec![(7, 1.0), (1, -1.0), (2, -1.0), (2, -1.0)],
+                115.98460335583164,
+            ),
+            rx(
+                "r4",
+                vec![(8, 1.0), (1, -1.0), (2, -1.0)],
+                25.488821610653375,
+            ),
+            rx(
+                "r5",
+                vec![(9, 1.0), (3, -1.0), (0, -1.0), (1, -1.0)],
+                56.077518165973075,
+            ),
+        ],
+        temperature_k: 700.0,
+        vessel: Vessel::ConstantVolume { volume_l: 4.0 },
+        activity: ActivityModel::Ideal,
+    }
+}
+
+#[test]
+fn solids_that_trade_places_settle() {
+    // The search that adds and drops one solid at a time went from {P3, P5}
+    // to {P1, P3, P5} (P1 forms), failed there and in {P1, P3}, fell back to
+    // {P3}, added P5 again and cycled; every set is now tried instead.
+    let p = cycling_solids_problem();
+    let s = solve(&p);
+    assert!(s.converged, "{:?}", s.why);
+    let n = &s.amounts_mol;
+    // Each component is conserved, free or bound (the products' parts:
+    // P0 = C2 C0, P1 = C1 C2, P2 = C2 C2 C0, P3 = C1 C2 C2, P4 = C1 C2,
+    // P5 = C3 C0 C1).
+    let parts: [&[(usize, f64)]; 4] = [
+        &[(0, 1.0), (4, 1.0), (6, 1.0), (9, 1.0)],
+        &[(1, 1.0), (5, 1.0), (7, 1.0), (8, 1.0), (9, 1.0)],
+        &[(2, 1.0), (4, 1.0), (5, 1.0), (6, 2.0), (7, 2.0), (8, 1.0)],
+        &[(3, 1.0), (9, 1.0)],
+    ];
+    for component in parts {
+        let total = |amounts: &dyn Fn(usize) -> f64| {
+            component.iter().map(|&(i, m)| m * amounts(i)).sum::<f64>()
+        };
+        let before = total(&|i| p.species[i].initial_mol);
+        let after = total(&|i| n[i]);
+        assert!(
+            (before - after).abs() < 1e-9 * before,
+            "{before} -> {after}"
+        );
+    }
+    // Mass action in bar, p = nRT/V with R = 0.08314462618 L bar/(mol K)
+    // (CODATA 2018); a solid at activity 1 (the thermodynamic K of a
+    // heterogeneous equilibrium, e.g. Atkins, "Physical Chemistry"). A
+    // solid present satisfies its law; one absent would not form.
+    let rt_v: f64 = 0.083_144_626_18 * 700.0 / 4.0;
+    let ln_p = |i: usize| s.ln_amounts[i] + rt_v.ln();
+    for r in &p.reactions {
+        let (product, _) = r.stoich[0];
+        let reactants: f64 = r.stoich[1..].iter().map(|&(i, _)| ln_p(i)).sum();
+        match p.species[product].phase {
+            Phase::Gas => assert!(
+                (ln_p(product) - reactants - r.ln_k).abs() < 1e-6,
+                "{}",
+                r.label
+            ),
+            _ if n[product] > 0.0 => {
+                assert!((reactants + r.ln_k).abs() < 1e-6, "{}", r.label)
+            }
+            _ => assert!(reactants + r.ln_k < 1e-6, "{} would form", r.label),
+        }
+    }
+}
