@@ -308,7 +308,7 @@ impl<'a> Solver<'a> {
                     }
                 }
             }
-            let mut system = self.system(problem, &present, actions, &state);
+            let mut system = self.system(&present, actions, &state);
             let before = state.clone();
             let mut result = system.solve_robust(&mut state);
             if matches!(result, Err(Failure::Stopped(_))) {
@@ -370,7 +370,7 @@ impl<'a> Solver<'a> {
                 // set it had left; every set of the condensed species is
                 // tried instead, smallest first, for the one whose solution
                 // keeps its species present and forms no other.
-                match self.search_sets(problem, &present, &origin) {
+                match self.search_sets(&present, &origin) {
                     Some((set, found, actions, k)) => {
                         present = set;
                         state = found;
@@ -454,17 +454,11 @@ impl<'a> Solver<'a> {
 
     /// The equations of one set of present species, with the conservation
     /// laws taken at `state`.
-    fn system(
-        &self,
-        problem: &'a Problem,
-        present: &[bool],
-        actions: Vec<Action>,
-        state: &State,
-    ) -> System<'a> {
+    fn system(&self, present: &[bool], actions: Vec<Action>, state: &State) -> System<'a> {
         let unknowns: Vec<usize> = (0..present.len()).filter(|&i| present[i]).collect();
         let balances = self.balances(&unknowns, state, false);
         System {
-            problem,
+            problem: self.problem,
             unknowns,
             actions,
             balances,
@@ -481,11 +475,10 @@ impl<'a> Solver<'a> {
     /// gives the fluid species.
     fn search_sets(
         &self,
-        problem: &Problem,
         present: &[bool],
         origin: &State,
     ) -> Option<(Vec<bool>, State, Vec<Action>, usize)> {
-        let s = problem.species.len();
+        let s = self.problem.species.len();
         let candidates: Vec<usize> = (0..s)
             .filter(|&i| self.is_condensed(i) && self.reacting[i] && self.reach[i])
             .collect();
@@ -510,7 +503,7 @@ impl<'a> Solver<'a> {
                     state.set_amount(i, 0.0);
                 }
             }
-            let mut system = self.system(problem, &set, actions, &state);
+            let mut system = self.system(&set, actions, &state);
             let Ok(k) = system.solve_robust(&mut state) else {
                 continue;
             };
