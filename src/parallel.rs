@@ -35,3 +35,26 @@ pub fn map_in_order<'a, T: Sync, R: Send>(
 pub fn cores() -> usize {
     rayon::current_num_threads()
 }
+
+/// `f` over `items`, results in order, in one run of neighbouring items per
+/// state of `states`, side by side; each run has its state (scratch space,
+/// say) to itself.
+pub fn map_with_states<T: Sync, S: Send, R: Send>(
+    states: &mut [S],
+    items: &[T],
+    f: impl Fn(&mut S, &T) -> R + Sync + Send,
+) -> Vec<R> {
+    if states.len() < 2 {
+        return match states.first_mut() {
+            Some(state) => items.iter().map(|x| f(state, x)).collect(),
+            None => Vec::new(),
+        };
+    }
+    let run = items.len().div_ceil(states.len()).max(1);
+    let runs: Vec<Vec<R>> = states
+        .par_iter_mut()
+        .zip(items.par_chunks(run))
+        .map(|(state, chunk)| chunk.iter().map(|x| f(state, x)).collect())
+        .collect();
+    runs.into_iter().flatten().collect()
+}

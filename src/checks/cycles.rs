@@ -11,7 +11,7 @@
 //! reaction the edit changed, from the finder as it stood before it.
 
 use super::{Checked, Nets, k_text, number, temperature, tolerance};
-use crate::chem::cycles::{CycleFinder, Dependence};
+use crate::chem::cycles::{CycleFinder, Dependence, Lookahead};
 use crate::diagnostic::Diagnostic;
 use crate::model::SpeciesId;
 use crate::units::constants::STANDARD_TEMPERATURE;
@@ -337,6 +337,11 @@ impl Through {
     }
 }
 
+/// The sizes of the batches of reactions reduced ahead of their turn: the
+/// first, doubled from batch to batch up to the last.
+const FIRST_BATCH: usize = 256;
+const LAST_BATCH: usize = 1024;
+
 /// What the check adds a reaction with: its net vector and its ln K at the
 /// reference temperature (`None` when it is not added).
 type Input<'a> = (&'a [(SpeciesId, Ratio<i64>)], Option<f64>);
@@ -431,32 +436,60 @@ pub(super) fn check(
         }
         None => (CycleFinder::new(), Vec::new()),
     };
-    for (i, &(net, value)) in inputs.iter().enumerate() {
-        if keep {
+    if keep {
+        for &(net, value) in &inputs {
             nets.push(net);
             values.push(value);
         }
-        if i < same {
-            continue;
-        }
-        let Some(value) = value else {
-            continue;
-        };
-        v.clear();
-        v.extend(net.iter().map(|&(s, x)| (s.0, x)));
-        ln_k[i] = value;
-        let Some(dependence) = finder.add_valued(i, &v, value) else {
-            continue;
-        };
-        if dependence.is_trivial()
-            || !dependence.predicted.is_finite()
-            || (value - dependence.predicted).abs() <= tolerance(dependence.predicted, rel)
-        {
-            continue;
-        }
-        candidates.push((i, dependence, value));
     }
-    clock.mark("cycle elimination");
+    // The reactions still to add, in batches: each batch is reduced ahead
+    // on every core against the basis as it stood, then added in order.
+    // The first batches are small, as nearly every early reaction joins
+    // the basis and leaves the next one less to reduce ahead.
+    let todo: Vec<(usize, f64)> = inputs
+        .iter()
+        .enumerate()
+        .skip(same)
+        .filter_map(|(i, &(_, value))| Some((i, value?)))
+        .collect();
+    let mut ahead = Lookahead::default();
+    let mut flat: Vec<(u32, Ratio<i64>)> = Vec::new();
+    let mut bounds: Vec<usize> = Vec::new();
+    let mut batch = FIRST_BATCH;
+    let mut done = 0;
+    while done < todo.len() {
+        let next = &todo[done..(done + batch).min(todo.len())];
+        flat.clear();
+        bounds.clear();
+        bounds.push(0);
+        for &(i, _) in next {
+            flat.extend(inputs[i].0.iter().map(|&(s, x)| (s.0, x)));
+            bounds.push(flat.len());
+        }
+        let vectors: Vec<&[(u32, Ratio<i64>)]> =
+            bounds.windows(2).map(|w| &flat[w[0]..w[1]]).collect();
+        let provisional = finder.reduce_ahead(&mut ahead, &vectors);
+        for ((&(i, value), v), p) in next.iter().zip(&vectors).zip(provisional) {
+            ln_k[i] = value;
+            let Some(dependence) = finder.add_reduced(i, v, value, p) else {
+                continue;
+            };
+            if dependence.is_trivial()
+                || !dependence.predicted.is_finite()
+                || (value - dependence.predicted).abs() <= tolerance(dependence.predicted, rel)
+            {
+                continue;
+            }
+            candidates.push((i, dependence, value));
+        }
+        done += next.len();
+        batch = (batch * 2).min(LAST_BATCH);
+    }
+    clock.mark(&format!(
+        "cycle elimination ({} reactions, {} independent)",
+        inputs.len(),
+        finder.rank()
+    ));
     // Only a failing cycle is expanded into its members, on every core
     // once the finder is complete; the predicted value is taken again from
     // them, exactly as the message shows it.
