@@ -163,6 +163,17 @@ const BLAME_ROUNDS: usize = 64;
 /// shared error explains are left to their closing reaction, as a single
 /// cycle gives no reason to prefer any of its members.
 fn blame(failures: &[Failure], reactions: usize, rel: f64) -> (Vec<Culprit>, Vec<usize>) {
+    blame_rescanning(failures, reactions, rel, false)
+}
+
+/// [`blame`], taking every reaction again in every round when `every`
+/// (for the tests, which hold the two to the same answer).
+fn blame_rescanning(
+    failures: &[Failure],
+    reactions: usize,
+    rel: f64,
+    every: bool,
+) -> (Vec<Culprit>, Vec<usize>) {
     let mut miss: Vec<f64> = failures.iter().map(|f| f.ln_k - f.predicted).collect();
     // Each failure's tolerance, computed once and kept beside the misses:
     // the rounds look both up for every cycle through every reaction, and
@@ -176,73 +187,40 @@ fn blame(failures: &[Failure], reactions: usize, rel: f64) -> (Vec<Culprit>, Vec
     let mut culprits: Vec<Culprit> = Vec::new();
     let through = Through::new(failures, reactions);
     let mut accepted = vec![false; reactions];
-    // (reaction, implied error, failure), grouped by reaction and sorted
-    // by error within a reaction.
-    let mut entries: Vec<(usize, f64, usize)> = Vec::new();
+    // The reactions whose entries may differ from the last round's: every
+    // one at first, then those through a cycle corrected in the last round.
+    // Any other reaction has the runs it had then, and each of those was
+    // accepted then or turned down for what still holds (too small, too
+    // few, too close to zero, or its reaction accepted), so leaving it out
+    // changes nothing.
+    let mut scan: Vec<usize> = (0..reactions).collect();
     for _ in 0..BLAME_ROUNDS {
-        entries.clear();
-        entries.reserve(through.items.len());
-        for c in 0..reactions {
-            let start = entries.len();
-            for &(f, m) in through.of(c) {
-                if open(&miss, f) {
-                    entries.push((c, miss[f] / m, f));
-                }
-            }
-            // A run needs two cycles: a reaction with one open cycle
-            // through it has none (the count of open cycles through a
-            // reaction is only used for reactions with a run).
-            if entries.len() - start < 2 {
-                entries.truncate(start);
-                continue;
-            }
-            entries[start..].sort_unstable_by(|a, b| a.1.total_cmp(&b.1).then(a.2.cmp(&b.2)));
-        }
-        // Agreeing errors are runs in sorted order: a run starts at a value
-        // and takes the following ones within AGREEMENT of it. A run counts
-        // when it holds at least two cycles and a good share of the open
-        // cycles through its reaction: a reaction through which very many
-        // cycles pass (one early in a chain of formations) can gather a few
-        // agreeing values by chance while the rest scatter.
-        let mut runs: Vec<(usize, usize)> = Vec::new();
-        let mut first = 0;
-        while first < entries.len() {
-            let c = entries[first].0;
-            let mut last = first;
-            while last < entries.len() && entries[last].0 == c {
-                last += 1;
-            }
-            let open_through = last - first;
-            // A K has one error: a reaction is accepted once, with the
-            // error most cycles agree on.
-            let mut i = if accepted[c] { last } else { first };
-            while i < last {
-                let e0 = entries[i].1;
-                let mut end = i + 1;
-                while end < last && entries[end].1 - e0 <= AGREEMENT {
-                    end += 1;
-                }
-                let size = end - i;
-                if size >= 2 && size * SHARE >= open_through && e0.abs() > AGREEMENT {
-                    runs.push((i, end));
-                }
-                i = end;
-            }
-            first = last;
+        // The reactions are taken in pieces on every core; each piece
+        // finds its own runs, as a run never leaves its reaction.
+        let pieces = through.pieces(&scan);
+        let segments = crate::parallel::map_in_order(&pieces, 1, |piece| {
+            Segment::of(piece, &through, &miss, &open, &accepted)
+        });
+        // (size, reaction, segment, start, end) of every run, in the order
+        // of the reactions.
+        let mut runs: Vec<(usize, usize, usize, usize, usize)> = Vec::new();
+        for (k, segment) in segments.iter().enumerate() {
+            runs.extend(
+                segment
+                    .runs
+                    .iter()
+                    .map(|&(a, b)| (b - a, segment.entries[a].0, k, a, b)),
+            );
         }
         if runs.is_empty() {
             break;
         }
         // Largest first; among equals the later reaction, as a file is
         // usually extended at its end.
-        runs.sort_by(|a, b| {
-            (b.1 - b.0)
-                .cmp(&(a.1 - a.0))
-                .then(entries[b.0].0.cmp(&entries[a.0].0))
-        });
+        runs.sort_by(|a, b| b.0.cmp(&a.0).then(b.1.cmp(&a.1)));
         let mut touched = vec![false; failures.len()];
-        for (start, end) in runs {
-            let run = &entries[start..end];
+        for (_, _, k, start, end) in runs {
+            let run = &segments[k].entries[start..end];
             let c = run[0].0;
             if accepted[c] || run.iter().any(|&(_, _, f)| touched[f]) {
                 continue;
@@ -272,6 +250,16 @@ fn blame(failures: &[Failure], reactions: usize, rel: f64) -> (Vec<Culprit>, Vec
                 shared,
             });
         }
+        let mut next = vec![false; reactions];
+        for (f, failure) in failures.iter().enumerate() {
+            if touched[f] {
+                for (c, _) in failure.participants() {
+                    next[c] = true;
+                }
+            }
+        }
+        scan.clear();
+        scan.extend((0..reactions).filter(|&c| every || next[c]));
     }
     // A cycle still open that closes at an accepted reaction holds another
     // wrong K too; it goes with that reaction's finding rather than making
@@ -299,6 +287,83 @@ fn blame(failures: &[Failure], reactions: usize, rel: f64) -> (Vec<Culprit>, Vec
         }
     }
     (culprits, unexplained)
+}
+
+/// About how many cycles pass through the reactions of one piece of a blame
+/// round; a reaction through which more pass has a piece of its own.
+const BLAME_PIECE: usize = 1 << 16;
+
+/// What one round of [`blame`] finds in a piece of the reactions: the runs
+/// of agreeing errors (ranges of `entries`), and the entries `(reaction,
+/// implied error, failure)` of the reactions with a run, grouped by
+/// reaction and sorted by error within a reaction. The entries of the other
+/// reactions are not kept: in the first round of a large library they are
+/// nearly all of them, and keeping them cost more memory than the rest of
+/// the blame.
+struct Segment {
+    entries: Vec<(usize, f64, usize)>,
+    runs: Vec<(usize, usize)>,
+}
+
+impl Segment {
+    fn of(
+        piece: &[usize],
+        through: &Through,
+        miss: &[f64],
+        open: &(impl Fn(&[f64], usize) -> bool + Sync),
+        accepted: &[bool],
+    ) -> Segment {
+        let mut segment = Segment {
+            entries: Vec::new(),
+            runs: Vec::new(),
+        };
+        // The entries of one reaction at a time.
+        let mut own: Vec<(usize, f64, usize)> = Vec::new();
+        for &c in piece {
+            // A K has one error: a reaction is accepted once, with the
+            // error most cycles agree on.
+            if accepted[c] {
+                continue;
+            }
+            own.clear();
+            for &(f, m) in through.of(c) {
+                if open(miss, f) {
+                    own.push((c, miss[f] / m, f));
+                }
+            }
+            // A run needs two cycles.
+            if own.len() < 2 {
+                continue;
+            }
+            own.sort_unstable_by(|a, b| a.1.total_cmp(&b.1).then(a.2.cmp(&b.2)));
+            // Agreeing errors are runs in sorted order: a run starts at a
+            // value and takes the following ones within AGREEMENT of it. A
+            // run counts when it holds at least two cycles and a good
+            // share of the open cycles through its reaction: a reaction
+            // through which very many cycles pass (one early in a chain of
+            // formations) can gather a few agreeing values by chance while
+            // the rest scatter.
+            let at = segment.entries.len();
+            let before = segment.runs.len();
+            let mut i = 0;
+            while i < own.len() {
+                let e0 = own[i].1;
+                let mut end = i + 1;
+                while end < own.len() && own[end].1 - e0 <= AGREEMENT {
+                    end += 1;
+                }
+                let size = end - i;
+                if size >= 2 && size * SHARE >= own.len() && e0.abs() > AGREEMENT {
+                    segment.runs.push((at + i, at + end));
+                }
+                i = end;
+            }
+            if segment.runs.len() > before {
+                segment.entries.extend_from_slice(&own);
+            }
+        }
+        segment
+    }
 }
 
 /// The failing cycles through each reaction, with the multiplier by which
@@ -334,6 +399,24 @@ impl Through {
 
     fn of(&self, reaction: usize) -> &[(usize, f64)] {
         &self.items[self.starts[reaction]..self.starts[reaction + 1]]
+    }
+
+    /// `reactions` cut into runs of neighbours through which some
+    /// [`BLAME_PIECE`] cycles pass in all, the last run shorter.
+    fn pieces<'a>(&self, reactions: &'a [usize]) -> Vec<&'a [usize]> {
+        let mut out = Vec::new();
+        let (mut start, mut cycles) = (0, 0);
+        for (i, &c) in reactions.iter().enumerate() {
+            cycles += self.of(c).len();
+            if cycles >= BLAME_PIECE {
+                out.push(&reactions[start..=i]);
+                (start, cycles) = (i + 1, 0);
+            }
+        }
+        if start < reactions.len() {
+            out.push(&reactions[start..]);
+        }
+        out
     }
 }
 
@@ -518,15 +601,22 @@ pub(super) fn check(
     out.extend(crate::parallel::map_in_order(&culprits, 16, |culprit| {
         report(ws, &reversible, &ln_k, t, &failures, culprit)
     }));
-    for f in unexplained {
+    // A failing cycle no shared error explains is reported at the reaction
+    // that closes it.
+    out.extend(crate::parallel::map_in_order(&unexplained, 16, |&f| {
         let alone = Culprit {
             reaction: failures[f].subject,
             error: failures[f].ln_k - failures[f].predicted,
             explained: vec![f],
             shared: Vec::new(),
         };
-        out.push(report(ws, &reversible, &ln_k, t, &failures, &alone));
-    }
+        report(ws, &reversible, &ln_k, t, &failures, &alone)
+    }));
+    clock.mark(&format!(
+        "cycle findings ({} blamed, {} left to their closing reactions)",
+        culprits.len(),
+        unexplained.len()
+    ));
     keep.then_some(CycleMemo {
         t,
         rel,
@@ -639,4 +729,109 @@ fn report(
 
 fn cycles(n: usize) -> &'static str {
     if n == 1 { "cycle" } else { "cycles" }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::{BLAME_PIECE, Culprit, Failure, Through, blame_rescanning};
+
+    /// A deterministic generator (splitmix64) so the cases are repeatable.
+    struct Rng(u64);
+    impl Rng {
+        fn below(&mut self, n: u64) -> u64 {
+            self.0 = self.0.wrapping_add(0x9E37_79B9_7F4A_7C15);
+            let mut z = self.0;
+            z = (z ^ (z >> 30)).wrapping_mul(0xBF58_476D_1CE4_E5B9);
+            z = (z ^ (z >> 27)).wrapping_mul(0x94D0_49BB_1331_11EB);
+            (z ^ (z >> 31)) % n
+        }
+    }
+
+    /// Failing cycles over `reactions` reactions of which every seventh
+    /// has a wrong ln K (errors 0.4 to 2.6): each cycle's miss is what its
+    /// wrong members put in, and cycles through none are left out.
+    fn failures(reactions: usize, cycles: usize, seed: u64) -> Vec<Failure> {
+        let mut rng = Rng(seed);
+        let error = |c: usize| (c % 7 == 3).then_some(0.4 + (c % 12) as f64 * 0.2);
+        let mut out = Vec::new();
+        for _ in 0..cycles {
+            let subject = rng.below(reactions as u64) as usize;
+            let mut members: Vec<(usize, f64)> = Vec::new();
+            for _ in 0..2 + rng.below(4) {
+                let j = rng.below(reactions as u64) as usize;
+                if j != subject && members.iter().all(|(k, _)| *k != j) {
+                    members.push((j, [1.0, -1.0, 2.0, 0.5][rng.below(4) as usize]));
+                }
+            }
+            members.sort_by_key(|(j, _)| *j);
+            let failure = Failure {
+                subject,
+                members,
+                ln_k: 0.0,
+                predicted: 0.0,
+            };
+            let miss: f64 = failure
+                .participants()
+                .filter_map(|(c, m)| Some(m * error(c)?))
+                .sum();
+            if miss.abs() > 1e-6 {
+                out.push(Failure {
+                    ln_k: miss,
+                    ..failure
+                });
+            }
+        }
+        out
+    }
+
+    fn outcome(found: &(Vec<Culprit>, Vec<usize>)) -> Vec<String> {
+        let mut lines: Vec<String> = found
+            .0
+            .iter()
+            .map(|c| {
+                format!(
+                    "{} {} {:?} {:?}",
+                    c.reaction,
+                    c.error.to_bits(),
+                    c.explained,
+                    c.shared
+                )
+            })
+            .collect();
+        lines.push(format!("{:?}", found.1));
+        lines
+    }
+
+    /// Taking again only the reactions through a cycle corrected in the
+    /// last round blames as taking every reaction every round does.
+    #[test]
+    fn rounds_that_skip_unchanged_reactions_blame_alike() {
+        for (reactions, cycles, seed) in [(30, 200, 1), (200, 3_000, 2), (1_000, 20_000, 3)] {
+            let failures = failures(reactions, cycles, seed);
+            let some = blame_rescanning(&failures, reactions, 1e-6, false);
+            let every = blame_rescanning(&failures, reactions, 1e-6, true);
+            assert!(some.0.len() > 2, "{} culprits", some.0.len());
+            assert_eq!(outcome(&some), outcome(&every), "{reactions} reactions");
+        }
+    }
+
+    /// The pieces of a round hold every reaction once, in order, and
+    /// break where the cycles through them reach the bound.
+    #[test]
+    fn pieces_cover_the_reactions_in_order() {
+        let failures = failures(5_000, 60_000, 4);
+        let through = Through::new(&failures, 5_000);
+        let scan: Vec<usize> = (0..5_000).filter(|c| c % 3 != 1).collect();
+        let pieces = through.pieces(&scan);
+        assert!(pieces.len() > 1);
+        assert_eq!(pieces.concat(), scan);
+        for piece in &pieces[..pieces.len() - 1] {
+            let (last, before) = piece.split_last().unwrap_or((&0, &[]));
+            let count = |cs: &[usize]| cs.iter().map(|&c| through.of(c).len()).sum::<usize>();
+            assert!(
+                count(before) < BLAME_PIECE
+                    && count(before) + through.of(*last).len() >= BLAME_PIECE
+            );
+        }
+    }
 }
