@@ -55,6 +55,11 @@ pub(crate) struct System<'a> {
     pub amount_scale: f64,
     /// The fraction of each ln K in force (1 except during continuation).
     pub homotopy: f64,
+    /// Whether condensed amounts may go below zero. The search for the
+    /// active set solves each set as it stands and judges it by the signs
+    /// of its root; a path that crosses zero on its way there says nothing
+    /// about the set.
+    pub signed: bool,
 }
 
 /// Why a Newton solve ended without a root.
@@ -240,6 +245,8 @@ impl System<'_> {
         for (j, &i) in self.unknowns.iter().enumerate() {
             if self.is_fluid(i) {
                 next.set_log(i, state.ln_n[i] + t * step[j]);
+            } else if self.signed {
+                next.set_amount(i, state.n[i] + t * step[j]);
             } else {
                 next.set_amount(i, (state.n[i] + t * step[j]).max(0.0));
             }
@@ -345,7 +352,7 @@ impl System<'_> {
             // the step there, and report a species already at 0 that the
             // step would take negative, so the caller can remove it.
             for (j, &i) in self.unknowns.iter().enumerate() {
-                if !self.is_fluid(i) && step[j] < 0.0 {
+                if !self.signed && !self.is_fluid(i) && step[j] < 0.0 {
                     if state.n[i] <= 0.0 {
                         return Err(Failure::Blocked(i));
                     }

@@ -431,6 +431,7 @@ impl<'a> Solver<'a> {
                     unknowns,
                     amount_scale: self.amount_scale(),
                     homotopy: 1.0,
+                    signed: false,
                 };
                 let mut polished = state.clone();
                 let Ok(k) = system.solve(&mut polished) else {
@@ -464,6 +465,7 @@ impl<'a> Solver<'a> {
             balances,
             amount_scale: self.amount_scale(),
             homotopy: 1.0,
+            signed: false,
         }
     }
 
@@ -471,7 +473,9 @@ impl<'a> Solver<'a> {
     /// that can form (up to [`MAX_SEARCHED_CONDENSED`] of them), fewest
     /// first, each from `origin`: the first set whose solution has no
     /// present condensed species below zero and no absent one that would
-    /// form, the same tests the one-at-a-time search ends on. `present`
+    /// form, the same tests the one-at-a-time search ends on. Each set is
+    /// solved with its condensed amounts free to cross zero, since a solid
+    /// that starts at zero may have to fall before it rises. `present`
     /// gives the fluid species.
     fn search_sets(
         &self,
@@ -504,6 +508,9 @@ impl<'a> Solver<'a> {
                 }
             }
             let mut system = self.system(&set, actions, &state);
+            // The set's root is judged by its signs below, wherever the
+            // path to it went.
+            system.signed = true;
             let Ok(k) = system.solve_robust(&mut state) else {
                 continue;
             };

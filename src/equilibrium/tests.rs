@@ -741,40 +741,42 @@ fn cycling_solids_problem() -> Problem {
     }
 }
 
-#[test]
-fn solids_that_trade_places_settle() {
-    // The search that adds and drops one solid at a time went from {P3, P5}
-    // to {P1, P3, P5} (P1 forms), failed there and in {P1, P3}, fell back to
-    // {P3}, added P5 again and cycled; every set is now tried instead.
-    let p = cycling_solids_problem();
-    let s = solve(&p);
+/// Checks a solution of a problem in the shape the property test makes: the
+/// first `components` species are gases, and each reaction forms its first
+/// term, one product, from components. Each component is conserved, free or
+/// bound; each reaction's mass-action law holds in bar, with p = nRT/V and R
+/// = 0.08314462618 L bar/(mol K) (CODATA 2018) and a solid at activity 1
+/// (the thermodynamic K of a heterogeneous equilibrium, e.g. Atkins,
+/// "Physical Chemistry"): a solid present satisfies its law, and one absent
+/// would not form.
+fn assert_formed_equilibrium(p: &Problem, s: &Solution, components: usize) {
     assert!(s.converged, "{:?}", s.why);
     let n = &s.amounts_mol;
-    // Each component is conserved, free or bound (the products' parts:
-    // P0 = C2 C0, P1 = C1 C2, P2 = C2 C2 C0, P3 = C1 C2 C2, P4 = C1 C2,
-    // P5 = C3 C0 C1).
-    let parts: [&[(usize, f64)]; 4] = [
-        &[(0, 1.0), (4, 1.0), (6, 1.0), (9, 1.0)],
-        &[(1, 1.0), (5, 1.0), (7, 1.0), (8, 1.0), (9, 1.0)],
-        &[(2, 1.0), (4, 1.0), (5, 1.0), (6, 2.0), (7, 2.0), (8, 1.0)],
-        &[(3, 1.0), (9, 1.0)],
-    ];
-    for component in parts {
-        let total = |amounts: &dyn Fn(usize) -> f64| {
-            component.iter().map(|&(i, m)| m * amounts(i)).sum::<f64>()
+    for c in 0..components {
+        // How many of component c each species holds.
+        let held = |i: usize| -> f64 {
+            if i == c {
+                return 1.0;
+            }
+            p.reactions
+                .iter()
+                .filter(|r| r.stoich[0].0 == i)
+                .map(|r| r.stoich[1..].iter().filter(|&&(j, _)| j == c).count() as f64)
+                .sum()
         };
-        let before = total(&|i| p.species[i].initial_mol);
-        let after = total(&|i| n[i]);
+        let before: f64 = (0..n.len())
+            .map(|i| held(i) * p.species[i].initial_mol)
+            .sum();
+        let after: f64 = (0..n.len()).map(|i| held(i) * n[i]).sum();
         assert!(
             (before - after).abs() < 1e-9 * before,
-            "{before} -> {after}"
+            "C{c}: {before} -> {after}"
         );
     }
-    // Mass action in bar, p = nRT/V with R = 0.08314462618 L bar/(mol K)
-    // (CODATA 2018); a solid at activity 1 (the thermodynamic K of a
-    // heterogeneous equilibrium, e.g. Atkins, "Physical Chemistry"). A
-    // solid present satisfies its law; one absent would not form.
-    let rt_v: f64 = 0.083_144_626_18 * 700.0 / 4.0;
+    let Vessel::ConstantVolume { volume_l } = p.vessel else {
+        panic!("the check is written for a vessel of constant volume");
+    };
+    let rt_v: f64 = 0.083_144_626_18 * p.temperature_k / volume_l;
     let ln_p = |i: usize| s.ln_amounts[i] + rt_v.ln();
     for r in &p.reactions {
         let (product, _) = r.stoich[0];
@@ -791,4 +793,77 @@ fn solids_that_trade_places_settle() {
             _ => assert!(reactants + r.ln_k < 1e-6, "{} would form", r.label),
         }
     }
+}
+
+#[test]
+fn solids_that_trade_places_settle() {
+    // The search that adds and drops one solid at a time went from {P3, P5}
+    // to {P1, P3, P5} (P1 forms), failed there and in {P1, P3}, fell back to
+    // {P3}, added P5 again and cycled; every set is now tried instead.
+    let p = cycling_solids_problem();
+    assert_formed_equilibrium(&p, &solve(&p), 4);
+}
+
+/// A case the property test `well_posed_problems_converge` found in
+/// session 10: two solids, P0 (C1 C2, K = e^80.3) and P4 (C2 C2, K =
+/// e^107), both absent or nearly so at the start, must both form, and the
+/// gas P1 takes up C0. From the starting amounts the way to that set passes
+/// through a negative amount of P0, which the set search took for a set
+/// that fails; it said 'did not settle (it cycled)'.
+#[test]
+fn two_solids_that_start_at_zero_form_together() {
+    let gas = |n: &str, x: f64| species(n, Phase::Gas, 0, x);
+    let solid = |n: &str, x: f64| species(n, Phase::Condensed, 0, x);
+    let rx = |label: &str, stoich: Vec<(usize, f64)>, ln_k: f64| Reaction {
+        label: label.into(),
+        stoich,
+        ln_k,
+    };
+    let p = Problem {
+        species: vec![
+            gas("C0", 0.8952745309801788),
+            gas("C1", 4.000569979278075),
+            gas("C2", 0.8432826346436123),
+            solid("P0", 0.0),
+            gas("P1", 0.0),
+            solid("P2", 0.436295819251841),
+            gas("P3", 1.7138316976507166),
+            solid("P4", 1.297440711016899),
+        ],
+        reactions: vec![
+            rx(
+                "r0",
+                vec![(3, 1.0), (1, -1.0), (2, -1.0)],
+                80.28352931483005,
+            ),
+            rx(
+                "r1",
+                vec![(4, 1.0), (1, -1.0), (0, -1.0)],
+                78.52454276678458,
+            ),
+            rx("r2", vec![(5, 1.0), (2, -1.0), (0, -1.0)], 0.0),
+            rx(
+                "r3",
+                vec![(6, 1.0), (1, -1.0), (0, -1.0), (2, -1.0)],
+                -135.01354211193873,
+            ),
+            rx(
+                "r4",
+                vec![(7, 1.0), (2, -1.0), (2, -1.0)],
+                106.96160035468559,
+            ),
+        ],
+        temperature_k: 700.0,
+        vessel: Vessel::ConstantVolume { volume_l: 4.0 },
+        activity: ActivityModel::Ideal,
+    };
+    let s = solve(&p);
+    assert_formed_equilibrium(&p, &s, 3);
+    // Both solids are present and P2 is not.
+    assert!(
+        s.amounts_mol[3] > 0.1 && s.amounts_mol[7] > 0.1,
+        "{:?}",
+        s.amounts_mol
+    );
+    assert_eq!(s.amounts_mol[5], 0.0);
 }
