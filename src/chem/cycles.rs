@@ -1397,6 +1397,38 @@ mod tests {
         assert_eq!(sh2, -canonical_key(&huge).1);
     }
 
+    /// Up to a dozen reactions over six species, with fractions and
+    /// coefficients near and at the edge of 64 bits among the small ones.
+    fn small_libraries() -> impl proptest::strategy::Strategy<Value = Vec<Vec<(u32, Ratio<i64>)>>> {
+        use proptest::strategy::Strategy;
+        proptest::collection::vec(
+            proptest::collection::vec(
+                (
+                    0u32..6,
+                    proptest::sample::select(vec![
+                        (1i64, 1i64),
+                        (-1, 1),
+                        (2, 1),
+                        (-3, 1),
+                        (1, 2),
+                        (-5, 3),
+                        (1 << 40, 1),
+                        (-(1 << 40), 1),
+                        (3_037_000_499, 1),
+                        (i64::MAX, 1),
+                    ]),
+                ),
+                1..5,
+            ),
+            1..12,
+        )
+        .prop_map(|v| {
+            v.iter()
+                .map(|r| r.iter().map(|&(s, (n, d))| (s, Ratio::new(n, d))).collect())
+                .collect()
+        })
+    }
+
     proptest::proptest! {
         /// Whichever path a reduction takes (machine integers over one
         /// denominator, or exact rationals when a value is a fraction or a
@@ -1404,21 +1436,8 @@ mod tests {
         /// exactly and the rank is that of the matrix.
         #[test]
         fn both_reduction_paths_give_exact_combinations(
-            v in proptest::collection::vec(
-                proptest::collection::vec(
-                    (0u32..6, proptest::sample::select(vec![
-                        (1i64, 1i64), (-1, 1), (2, 1), (-3, 1), (1, 2), (-5, 3),
-                        (1 << 40, 1), (-(1 << 40), 1), (3_037_000_499, 1), (i64::MAX, 1),
-                    ])),
-                    1..5,
-                ),
-                1..12,
-            )
+            all in small_libraries()
         ) {
-            let all: Vec<Vec<(u32, Ratio<i64>)>> = v
-                .iter()
-                .map(|r| r.iter().map(|&(s, (n, d))| (s, Ratio::new(n, d))).collect())
-                .collect();
             let mut f = CycleFinder::new();
             for (i, r) in all.iter().enumerate() {
                 if let Some(combo) = f.add(i, r) {
@@ -1432,22 +1451,9 @@ mod tests {
         /// either reduction path, fractions and overflows included.
         #[test]
         fn batches_reduced_ahead_agree_on_both_paths(
-            v in proptest::collection::vec(
-                proptest::collection::vec(
-                    (0u32..6, proptest::sample::select(vec![
-                        (1i64, 1i64), (-1, 1), (2, 1), (-3, 1), (1, 2), (-5, 3),
-                        (1 << 40, 1), (-(1 << 40), 1), (3_037_000_499, 1), (i64::MAX, 1),
-                    ])),
-                    1..5,
-                ),
-                1..12,
-            ),
+            all in small_libraries(),
             batch in 1usize..6,
         ) {
-            let all: Vec<Vec<(u32, Ratio<i64>)>> = v
-                .iter()
-                .map(|r| r.iter().map(|&(s, (n, d))| (s, Ratio::new(n, d))).collect())
-                .collect();
             let values: Vec<f64> = (0..all.len()).map(|i| i as f64 * 0.37 - 1.0).collect();
             let mut one = CycleFinder::new();
             let (finder, got) = add_in_batches(&all, &values, batch);

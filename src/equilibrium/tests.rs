@@ -683,17 +683,28 @@ fn a_gas_used_up_by_a_solid_leaves_the_others_unformed() {
     assert!(ln_p(5) + ln_p(0) + ln_p(1) < -51.96874007371036);
 }
 
+/// A gas and a condensed species of the shape the property test makes, and
+/// a reaction given by its ln K (K itself would round e^150 through exp).
+fn gas(name: &str, initial_mol: f64) -> Species {
+    species(name, Phase::Gas, 0, initial_mol)
+}
+
+fn solid(name: &str, initial_mol: f64) -> Species {
+    species(name, Phase::Condensed, 0, initial_mol)
+}
+
+fn rx(label: &str, stoich: Vec<(usize, f64)>, ln_k: f64) -> Reaction {
+    Reaction {
+        label: label.into(),
+        stoich,
+        ln_k,
+    }
+}
+
 /// A case the property test `well_posed_problems_converge` found in
 /// session 9: four product solids at constant volume, three of them
 /// present at the start, the gas C0 at a trace.
 fn cycling_solids_problem() -> Problem {
-    let gas = |n: &str, x: f64| species(n, Phase::Gas, 0, x);
-    let solid = |n: &str, x: f64| species(n, Phase::Condensed, 0, x);
-    let rx = |label: &str, stoich: Vec<(usize, f64)>, ln_k: f64| Reaction {
-        label: label.into(),
-        stoich,
-        ln_k,
-    };
     Problem {
         species: vec![
             gas("C0", 1e-6),
@@ -812,13 +823,6 @@ fn solids_that_trade_places_settle() {
 /// that fails; it said 'did not settle (it cycled)'.
 #[test]
 fn two_solids_that_start_at_zero_form_together() {
-    let gas = |n: &str, x: f64| species(n, Phase::Gas, 0, x);
-    let solid = |n: &str, x: f64| species(n, Phase::Condensed, 0, x);
-    let rx = |label: &str, stoich: Vec<(usize, f64)>, ln_k: f64| Reaction {
-        label: label.into(),
-        stoich,
-        ln_k,
-    };
     let p = Problem {
         species: vec![
             gas("C0", 0.8952745309801788),
