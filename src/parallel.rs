@@ -38,7 +38,8 @@ pub fn cores() -> usize {
 
 /// `f` over `items`, results in order, in one run of neighbouring items per
 /// state of `states`, side by side; each run has its state (scratch space,
-/// say) to itself.
+/// say) to itself. With no state there is nothing to run `f` with, and the
+/// result is empty: callers give at least one.
 pub fn map_with_states<T: Sync, S: Send, R: Send>(
     states: &mut [S],
     items: &[T],
