@@ -49,6 +49,15 @@
 //! large library most reactions depend on earlier ones (three in four at
 //! 10^5 reactions, eleven in twelve at 10^6), so most of the work moves
 //! off the one core that adds.
+//!
+//! Most of those dependent reactions need no reduction at all. The finder
+//! keeps potentials and fingerprints of the species (module `potentials`):
+//! [`CycleFinder::spanned`] tells whether a vector lies in the span of the
+//! basis, and [`CycleFinder::carried_value`] the value a reduction would
+//! carry to it, each from one pass over the vector's few entries. A caller
+//! that only needs to know that a cycle closes within a tolerance can
+//! stop there, and reduce only the reactions that join the basis or may
+//! miss.
 
 use std::cmp::Reverse;
 use std::collections::BinaryHeap;
@@ -60,6 +69,9 @@ use num_rational::{BigRational, Ratio};
 use num_traits::{CheckedAdd, CheckedMul, ToPrimitive, Zero};
 
 use super::balance::big;
+
+mod potentials;
+use potentials::Potentials;
 
 /// An exact rational that stays on machine integers while it fits and
 /// moves to big integers when it does not, so that the common case (small
@@ -266,6 +278,9 @@ pub struct CycleFinder {
     /// Scratch space reused from one `add` to the next, so that adding a
     /// reaction allocates little.
     scratch: Scratch,
+    /// What a reaction in the span is worth, and whether it is in it,
+    /// answered without a reduction.
+    potentials: Potentials,
 }
 
 /// No basis vector.
@@ -441,6 +456,22 @@ impl CycleFinder {
         }
     }
 
+    /// Whether `vector` lies in the span of the reactions added so far,
+    /// told by a fingerprint instead of a reduction: `Some(false)` for
+    /// certain, `Some(true)` but for a chance of 1 in 2^61 − 1 (see
+    /// module `potentials`), `None` when the fingerprint cannot tell; an exact
+    /// answer takes [`CycleFinder::add_valued`].
+    pub fn spanned(&self, vector: &[(u32, Ratio<i64>)]) -> Option<bool> {
+        self.potentials.spanned(vector)
+    }
+
+    /// For a vector in the span, the value the combination predicts (what
+    /// [`Dependence::predicted`] would be, up to rounding) and the size of
+    /// the numbers summed for it, to bound that rounding.
+    pub fn carried_value(&self, vector: &[(u32, Ratio<i64>)]) -> (f64, f64) {
+        self.potentials.value(vector)
+    }
+
     /// Adds reaction `reaction` with species coefficients `vector`.
     ///
     /// When the vector is a linear combination of the independent
@@ -504,13 +535,16 @@ impl CycleFinder {
         for (k, p) in pivoted.iter().enumerate() {
             pivot_of[p.pivot as usize] = k as u32;
         }
+        let integers = self.integers[..end].to_vec();
+        let potentials = Potentials::rebuilt(&pivoted, &integers);
         CycleFinder {
             basis,
             pivoted,
-            integers: self.integers[..end].to_vec(),
+            integers,
             pivot_of,
             occurrences: Vec::new(),
             scratch: Scratch::default(),
+            potentials,
         }
     }
 
@@ -822,6 +856,8 @@ impl CycleFinder {
             scale,
             reduced_by: used,
         });
+        self.potentials
+            .joined(self.pivoted.len() - 1, &self.pivoted, &self.integers);
     }
 
     /// Σ c_k · b_k over basis vectors, in original reactions: sorted by
@@ -1135,7 +1171,7 @@ mod tests {
     }
 
     /// Reaction vectors, and whether each was built from earlier ones.
-    type Library = (Vec<Vec<(u32, Ratio<i64>)>>, Vec<bool>);
+    pub(super) type Library = (Vec<Vec<(u32, Ratio<i64>)>>, Vec<bool>);
 
     /// Reactions shaped like a kinetics library of sub-mechanisms that
     /// share species: elementary steps (`A + B -> C + D`, `A -> B + C`,
@@ -1144,7 +1180,7 @@ mod tests {
     /// participants, a small pool of common radicals and molecules. One
     /// reaction in five restates earlier ones: a reverse, a duplicate, a
     /// multiple or the net of two or three recent steps (a cycle).
-    fn library(n: usize, seed: u64) -> Library {
+    pub(super) fn library(n: usize, seed: u64) -> Library {
         const COMMON: u64 = 12;
         let mut rng = Rng(seed);
         let mut all: Vec<Vec<(u32, Ratio<i64>)>> = Vec::with_capacity(n);
@@ -1234,6 +1270,52 @@ mod tests {
                 assert_eq!(resumed.add(i, v), answers[i], "reaction {i} after {from}");
             }
             assert_eq!(resumed.rank(), whole.rank());
+        }
+    }
+
+    /// Before each reaction is added, the fingerprint tells whether it
+    /// depends on the earlier ones exactly as the reduction then finds,
+    /// and the potentials carry the value the reduction predicts; so does
+    /// a finder taken back to before a reaction.
+    #[test]
+    fn fingerprints_and_potentials_answer_as_the_reduction() {
+        for seed in [3, 19, 2_024] {
+            let (all, _) = library(3_000, seed);
+            let values: Vec<f64> = (0..all.len())
+                .map(|i| ((i * 7_919 + seed as usize) % 1_000) as f64 / 37.0 - 13.0)
+                .collect();
+            let mut finder = CycleFinder::new();
+            let mut dependent = 0;
+            for (i, v) in all.iter().enumerate() {
+                let told = finder.spanned(v);
+                let (carried, size) = finder.carried_value(v);
+                let answer = finder.add_valued(i, v, values[i]);
+                assert_eq!(told, Some(answer.is_some()), "reaction {i}, seed {seed}");
+                if let Some(d) = answer {
+                    dependent += 1;
+                    let off = (carried - d.predicted).abs();
+                    assert!(
+                        off <= 1e-9 * (1.0 + size),
+                        "reaction {i}: {carried} against {}",
+                        d.predicted
+                    );
+                }
+            }
+            assert!(dependent > 500, "{dependent} dependent reactions");
+            // Every reaction is in the span of the whole basis.
+            assert!(all.iter().all(|v| finder.spanned(v) == Some(true)));
+            let resumed = finder.before(1_500);
+            let mut again = CycleFinder::new();
+            for (i, v) in all.iter().enumerate().take(1_500) {
+                again.add_valued(i, v, values[i]);
+            }
+            for v in &all[1_500..] {
+                assert_eq!(resumed.spanned(v), again.spanned(v));
+                assert_eq!(
+                    resumed.carried_value(v).0.to_bits(),
+                    again.carried_value(v).0.to_bits()
+                );
+            }
         }
     }
 
