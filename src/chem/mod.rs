@@ -6,6 +6,7 @@
 
 pub mod balance;
 pub mod cycles;
+pub mod element_rows;
 pub mod elements;
 pub mod formula;
 

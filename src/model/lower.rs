@@ -13,6 +13,7 @@
 use super::quantity::{Kind, UnitReader};
 use super::*;
 use crate::chem::balance::{BalanceOutcome, balance, residuals};
+use crate::chem::element_rows::ElementRows;
 use crate::chem::formula::{FormulaErrorKind, SpeciesKind, looks_like_formula, parse_formula};
 use crate::config::Config;
 use crate::diagnostic::{Applicability, Diagnostic, Fix, TextEdit};
@@ -375,11 +376,12 @@ impl<'w> Lowering<'w> {
         };
         let second_heads = heads.split_off(split);
         let species = &self.lib.species;
+        let rows = ElementRows::new(species.iter().map(|s| &*s.formula));
         let (first, second) = shells.split_at_mut(split);
         let finish = |part: &mut [Reaction], heads: Vec<ReactionHead>| {
             let mut worker = Lowering::worker(ws, config);
             for (r, head) in part.iter_mut().zip(heads) {
-                worker.finish_reaction(r, head, species);
+                worker.finish_reaction(r, head, species, &rows);
             }
             worker.diags
         };
@@ -1028,7 +1030,13 @@ impl<'w> Lowering<'w> {
 
     /// Give a reaction the terms its head read and check its balance.
     /// `species` are the library's species.
-    fn finish_reaction(&mut self, r: &mut Reaction, head: ReactionHead, species: &[Species]) {
+    fn finish_reaction(
+        &mut self,
+        r: &mut Reaction,
+        head: ReactionHead,
+        species: &[Species],
+        rows: &ElementRows,
+    ) {
         let ReactionHead {
             file,
             equation: eq,
@@ -1040,7 +1048,7 @@ impl<'w> Lowering<'w> {
         r.terms = terms;
         r.complete = complete;
         if complete {
-            r.balanced = self.check_balance_with(file, eq, r, species);
+            r.balanced = self.check_balance_with(file, eq, r, species, rows);
         }
     }
 
@@ -1237,19 +1245,12 @@ impl<'w> Lowering<'w> {
         eq: &ast::Equation,
         r: &Reaction,
         all: &[Species],
+        rows: &ElementRows,
     ) -> bool {
-        let species: Vec<&crate::chem::formula::Formula> = r
-            .terms
-            .iter()
-            .map(|t| &*all[t.species.0 as usize].formula)
-            .collect();
         let third = |side: Side| {
             r.terms
                 .iter()
-                .filter(|t| {
-                    t.side == side
-                        && all[t.species.0 as usize].formula.kind == SpeciesKind::ThirdBody
-                })
+                .filter(|t| t.side == side && rows.is_third_body(t.species.0))
                 .count()
         };
         let (m_left, m_right) = (third(Side::Left), third(Side::Right));
@@ -1277,6 +1278,24 @@ impl<'w> Lowering<'w> {
             );
             ok = false;
         }
+        // Most equations balance with small coefficients: settle those on
+        // the packed rows, and keep the exact path for the rest.
+        let signed_terms = r.terms.iter().map(|t| {
+            let c = if t.side == Side::Left {
+                -t.coefficient
+            } else {
+                t.coefficient
+            };
+            (t.species.0, c)
+        });
+        if rows.balanced(signed_terms) == Some(true) {
+            return ok;
+        }
+        let species: Vec<&crate::chem::formula::Formula> = r
+            .terms
+            .iter()
+            .map(|t| &*all[t.species.0 as usize].formula)
+            .collect();
         let signed: Vec<(Ratio<i64>, &crate::chem::formula::Formula)> = r
             .terms
             .iter()
@@ -1292,8 +1311,6 @@ impl<'w> Lowering<'w> {
                 )
             })
             .collect();
-        // Most equations balance with small coefficients: settle those on
-        // machine integers and keep the exact big path for the rest.
         if crate::chem::balance::balanced_small(&signed) == Some(true) {
             return ok;
         }
