@@ -10,13 +10,16 @@
 //! with one another; `report`, `solve` and the language server ask it for K
 //! at the temperatures they need.
 
-use crate::chem::formula::{Phase, SpeciesKind};
-use crate::model::{KForm, Library, Loc, RateKind, RateLaw, Reaction, Side};
+use crate::chem::formula::{Formula, Phase, SpeciesKind};
+use crate::model::{KForm, Library, Loc, RateKind, RateLaw, Reaction, Side, SpeciesId};
 use crate::thermo::{
     KTable, ln_k_at, ln_k_at_cp, ln_k_from_dg, ln_k_from_dh_ds, ln_k_from_kc, ln_k_from_kp,
 };
 use crate::units::Dimension;
 use crate::units::constants::{GAS_CONSTANT, STANDARD_TEMPERATURE};
+
+mod facts;
+pub use facts::{Facts, FactsTable};
 
 /// How a species enters the thermodynamic K.
 #[derive(Clone, Copy, Debug, PartialEq, Eq)]
@@ -34,7 +37,11 @@ pub enum Standard {
 /// written; otherwise a charged species is a solute and a neutral one a gas
 /// (common practice in gas-phase and aqueous libraries respectively).
 pub fn standard_of(lib: &Library, id: crate::model::SpeciesId) -> Standard {
-    let f = &lib.species(id).formula;
+    standard_of_formula(&lib.species(id).formula)
+}
+
+/// [`standard_of`] for a formula.
+fn standard_of_formula(f: &Formula) -> Standard {
     match f.kind {
         SpeciesKind::Electron | SpeciesKind::ThirdBody | SpeciesKind::Photon => {
             return Standard::Unity;
@@ -52,11 +59,16 @@ pub fn standard_of(lib: &Library, id: crate::model::SpeciesId) -> Standard {
 
 /// Δn over gases and over solutes (products minus reactants).
 pub fn delta_n(lib: &Library, r: &Reaction) -> (f64, f64) {
+    delta_n_with(r, &|s| standard_of(lib, s))
+}
+
+/// [`delta_n`] with each species' standard state from `standard`.
+fn delta_n_with(r: &Reaction, standard: &impl Fn(SpeciesId) -> Standard) -> (f64, f64) {
     let mut gas = 0.0;
     let mut aq = 0.0;
     for &(s, c) in r.net() {
         let c = *c.numer() as f64 / *c.denom() as f64;
-        match standard_of(lib, s) {
+        match standard(s) {
             Standard::Gas => gas += c,
             Standard::Solute => aq += c,
             Standard::Unity => {}
@@ -169,24 +181,21 @@ fn ratio_f64(r: num_rational::Ratio<i64>) -> f64 {
 /// A sum over the species of ν·value, using the formation conventions for
 /// reference elements, H+(aq) and the electron; `None` when a value is missing.
 fn species_sum(
-    lib: &Library,
     r: &Reaction,
-    get: impl Fn(&crate::model::Species) -> Option<f64>,
-    reference_zero: impl Fn(&crate::model::Species) -> bool,
+    facts: &impl Fn(SpeciesId) -> Facts,
+    get: impl Fn(&Facts) -> Option<f64>,
+    reference_zero: impl Fn(&Facts) -> bool,
 ) -> Option<f64> {
     let mut total = 0.0;
     for &(s, nu) in r.net() {
         let nu = ratio_f64(nu);
-        let sp = lib.species(s);
-        if matches!(
-            sp.formula.kind,
-            SpeciesKind::ThirdBody | SpeciesKind::Photon
-        ) {
+        let f = facts(s);
+        if !f.counted {
             continue;
         }
-        let v = match get(sp) {
+        let v = match get(&f) {
             Some(v) => v,
-            None if reference_zero(sp) => 0.0,
+            None if reference_zero(&f) => 0.0,
             None => return None,
         };
         total += nu * v;
@@ -285,7 +294,17 @@ impl ReactionK {
     /// Gather every K source of reaction `r`. Bare Kc and Kp numbers are read
     /// in mol/L and bar (the caller reports their missing units).
     pub fn of(lib: &Library, r: &Reaction) -> ReactionK {
-        let (dn_gas, dn_aq) = delta_n(lib, r);
+        Self::of_with(r, &|s| Facts::of(lib.species(s)))
+    }
+
+    /// [`ReactionK::of`] with the species' facts from a table made once
+    /// for the whole library, for gathering the sources of every reaction.
+    pub fn of_packed(r: &Reaction, table: &FactsTable) -> ReactionK {
+        Self::of_with(r, &|s| table.get(s))
+    }
+
+    fn of_with(r: &Reaction, facts: &impl Fn(SpeciesId) -> Facts) -> ReactionK {
+        let (dn_gas, dn_aq) = delta_n_with(r, &|s| facts(s).standard);
         let mut stated = Vec::new();
         for (i, k) in r.k.iter().enumerate() {
             let Some(ln_si) = k.ln_si else { continue };
@@ -329,38 +348,13 @@ impl ReactionK {
                 })
                 .collect();
         let stated_ds = r.ds.first().map(|d| d.value);
-        let species_dh = species_sum(
-            lib,
-            r,
-            |s| s.data().dhf.map(|d| d.value),
-            zero_by_convention,
-        );
-        let species_dg = species_sum(
-            lib,
-            r,
-            |s| s.data().dgf.map(|d| d.value),
-            zero_by_convention,
-        );
+        let species_dh = species_sum(r, facts, |f| f.dhf, |f| f.zero_formation);
+        let species_dg = species_sum(r, facts, |f| f.dgf, |f| f.zero_formation);
         // Entropies of elements are not zero, so every species needs S
         // (the electron and H+(aq) are zero by convention).
-        let species_s = species_sum(
-            lib,
-            r,
-            |s| s.data().s.map(|d| d.value),
-            |s| s.formula.kind == SpeciesKind::Electron || is_proton(s),
-        );
-        let dcp = species_sum(
-            lib,
-            r,
-            |s| s.data().cp.map(|d| d.value),
-            |s| s.formula.kind == SpeciesKind::Electron,
-        )
-        .filter(|_| {
-            r.terms.iter().all(|t| {
-                lib.species(t.species).data().cp.is_some()
-                    || lib.species(t.species).formula.kind != SpeciesKind::Compound
-            })
-        });
+        let species_s = species_sum(r, facts, |f| f.s, |f| f.zero_entropy);
+        let dcp = species_sum(r, facts, |f| f.cp, |f| f.zero_heat_capacity)
+            .filter(|_| r.terms.iter().all(|t| facts(t.species).heat_capacity_known));
         let dh = match r.dh.first() {
             Some(d) => Some((d.value, d.at_k, EnthalpyOrigin::Stated)),
             None => species_dh.map(|v| (v, STANDARD_TEMPERATURE, EnthalpyOrigin::Species)),
@@ -383,7 +377,14 @@ impl ReactionK {
             )),
             _ => None,
         }
-        .filter(|_| has_species_data(lib, r))
+        // Only when some species carries formation data, so that reactions
+        // of reference elements alone do not count as "from species".
+        .filter(|_| {
+            r.terms.iter().any(|t| {
+                let f = facts(t.species);
+                f.dgf.is_some() || f.dhf.is_some()
+            })
+        })
         .map(|(ln_k, origin)| {
             Box::new(Point {
                 t: STANDARD_TEMPERATURE,
@@ -598,13 +599,4 @@ impl ReactionK {
         temps.dedup_by(|a, b| (a.0 - b.0).abs() < 1e-9);
         KTable::new(&temps).ok().map(|table| table.dh(t))
     }
-}
-
-/// True when some species of the reaction carries formation data (so that
-/// reactions of reference elements alone do not count as "from species").
-fn has_species_data(lib: &Library, r: &Reaction) -> bool {
-    r.terms.iter().any(|t| {
-        let d = lib.species(t.species).data();
-        d.dgf.is_some() || d.dhf.is_some()
-    })
 }

@@ -226,9 +226,10 @@ fn run_with(
         .iter()
         .filter(|r| r.complete && r.balanced)
         .collect();
+    let facts = crate::reaction_k::FactsTable::of(lib);
     let checked = on_every_core(&ready, |reaction| Checked {
         reaction,
-        k: ReactionK::of(lib, reaction),
+        k: ReactionK::of_packed(reaction, &facts),
     });
     prep.mark("K models");
     // The pair keys: the last ones when no reaction's net vector changed,
