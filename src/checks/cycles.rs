@@ -60,13 +60,18 @@ fn reference_temperature(checked: &[&Checked]) -> (f64, Vec<Option<f64>>) {
     (t, values.unwrap_or_else(|| vec![None; checked.len()]))
 }
 
-fn multiplier_text(m: f64) -> String {
+fn multiplier_text(m: f64) -> std::borrow::Cow<'static, str> {
+    // The multipliers of most cycles are small integers: no formatting.
+    const SMALL: [&str; 9] = ["-4", "-3", "-2", "-1", "0", "1", "2", "3", "4"];
+    if m.fract() == 0.0 && m.abs() <= 4.0 {
+        return SMALL[(m + 4.0) as usize].into();
+    }
     let r = (m * 6.0).round();
     if (m * 6.0 - r).abs() < 1e-9 && m.fract() != 0.0 {
         let g = gcd(r.abs() as i64, 6);
-        return format!("{}/{}", r as i64 / g, 6 / g);
+        return format!("{}/{}", r as i64 / g, 6 / g).into();
     }
-    number(m)
+    number(m).into()
 }
 
 fn gcd(a: i64, b: i64) -> i64 {
@@ -775,13 +780,16 @@ fn report(
     let r = reversible[culprit].reaction;
     let mut d = Diagnostic::new("cycle-inconsistent", r.loc.file, r.loc.span, message)
         .with_help("around a closed cycle the K multiply to 1 (Wegscheider); correct the K that is wrong or derive it from the others");
+    d.related.reserve(terms.len() + LISTED_CYCLES);
     for (j, m) in &terms {
         let member = reversible[*j].reaction;
-        d = d.with_related(
-            member.loc.file,
-            member.loc.span,
-            format!("member of the cycle, multiplier {}", multiplier_text(*m)),
-        );
+        let mut message = String::from("member of the cycle, multiplier ");
+        message.push_str(&multiplier_text(*m));
+        d.related.push(crate::diagnostic::Related {
+            file: member.loc.file,
+            span: member.loc.span,
+            message,
+        });
     }
     let others = blamed.explained.iter().chain(&blamed.shared);
     for &f in others.filter(|&&f| f != shown).take(LISTED_CYCLES) {
@@ -912,6 +920,21 @@ mod tests {
                     && count(before) + through.of(*last).len() >= BLAME_PIECE
             );
         }
+    }
+
+    /// Multipliers read as messages write numbers, and fractions of small
+    /// denominators as fractions.
+    #[test]
+    fn multipliers_read_as_numbers_do() {
+        for m in -10..=10 {
+            let m = f64::from(m);
+            assert_eq!(super::multiplier_text(m), super::number(m));
+        }
+        assert_eq!(super::multiplier_text(-0.0), "0");
+        assert_eq!(super::multiplier_text(0.5), "1/2");
+        assert_eq!(super::multiplier_text(-1.0 / 3.0), "-1/3");
+        assert_eq!(super::multiplier_text(2.0 / 3.0), "2/3");
+        assert_eq!(super::multiplier_text(0.3), "0.3");
     }
 
     /// A reaction's net vector, as the model gives it.

@@ -164,6 +164,7 @@ pub fn run(
         }
     };
     let written = written.and_then(|()| out.flush());
+    clock.mark("report written");
     if let Err(e) = written
         && e.kind() != std::io::ErrorKind::BrokenPipe
     {

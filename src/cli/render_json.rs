@@ -24,14 +24,14 @@ pub fn write_report(
                 out.write_all(b",")?;
             }
             out.write_all(b"\n    ")?;
-            out.write_all(text?.as_bytes())?;
+            out.write_all(&text?)?;
         }
     }
     if !diagnostics.is_empty() {
         out.write_all(b"\n  ")?;
     }
     out.write_all(b"],\n  \"summary\": ")?;
-    out.write_all(nested(&summary, 1)?.as_bytes())?;
+    out.write_all(&nested(&summary, 1)?)?;
     out.write_all(b"\n}")
 }
 
@@ -40,10 +40,114 @@ const BATCH: usize = 4096;
 
 /// `value` as pretty JSON for a place `depth` levels deep in a document:
 /// every line after the first indented by two more spaces a level, as the
-/// pretty writer indents (a JSON string holds no raw line break).
-fn nested<T: Serialize>(value: &T, depth: usize) -> std::io::Result<String> {
-    let text = serde_json::to_string_pretty(value).map_err(std::io::Error::other)?;
-    Ok(text.replace('\n', &format!("\n{}", "  ".repeat(depth))))
+/// pretty writer indents.
+fn nested<T: Serialize>(value: &T, depth: usize) -> std::io::Result<Vec<u8>> {
+    let mut out = Vec::with_capacity(1024);
+    let mut writer = serde_json::Serializer::with_formatter(
+        &mut out,
+        Nested {
+            depth,
+            has_value: false,
+        },
+    );
+    value
+        .serialize(&mut writer)
+        .map_err(std::io::Error::other)?;
+    Ok(out)
+}
+
+/// The pretty layout of `serde_json`'s pretty writer (two spaces a level,
+/// `": "` after a key), starting `depth` levels deep, so that a part of a
+/// document is written indented where it stands instead of indented
+/// after the fact.
+struct Nested {
+    depth: usize,
+    has_value: bool,
+}
+
+impl Nested {
+    fn indent<W: ?Sized + std::io::Write>(&self, w: &mut W) -> std::io::Result<()> {
+        for _ in 0..self.depth {
+            w.write_all(b"  ")?;
+        }
+        Ok(())
+    }
+
+    fn open<W: ?Sized + std::io::Write>(
+        &mut self,
+        w: &mut W,
+        bracket: &[u8],
+    ) -> std::io::Result<()> {
+        self.depth += 1;
+        self.has_value = false;
+        w.write_all(bracket)
+    }
+
+    fn close<W: ?Sized + std::io::Write>(
+        &mut self,
+        w: &mut W,
+        bracket: &[u8],
+    ) -> std::io::Result<()> {
+        self.depth -= 1;
+        if self.has_value {
+            w.write_all(b"\n")?;
+            self.indent(w)?;
+        }
+        w.write_all(bracket)
+    }
+
+    fn item<W: ?Sized + std::io::Write>(&self, w: &mut W, first: bool) -> std::io::Result<()> {
+        w.write_all(if first { b"\n" } else { b",\n" })?;
+        self.indent(w)
+    }
+}
+
+impl serde_json::ser::Formatter for Nested {
+    fn begin_array<W: ?Sized + std::io::Write>(&mut self, w: &mut W) -> std::io::Result<()> {
+        self.open(w, b"[")
+    }
+
+    fn end_array<W: ?Sized + std::io::Write>(&mut self, w: &mut W) -> std::io::Result<()> {
+        self.close(w, b"]")
+    }
+
+    fn begin_array_value<W: ?Sized + std::io::Write>(
+        &mut self,
+        w: &mut W,
+        first: bool,
+    ) -> std::io::Result<()> {
+        self.item(w, first)
+    }
+
+    fn end_array_value<W: ?Sized + std::io::Write>(&mut self, _: &mut W) -> std::io::Result<()> {
+        self.has_value = true;
+        Ok(())
+    }
+
+    fn begin_object<W: ?Sized + std::io::Write>(&mut self, w: &mut W) -> std::io::Result<()> {
+        self.open(w, b"{")
+    }
+
+    fn end_object<W: ?Sized + std::io::Write>(&mut self, w: &mut W) -> std::io::Result<()> {
+        self.close(w, b"}")
+    }
+
+    fn begin_object_key<W: ?Sized + std::io::Write>(
+        &mut self,
+        w: &mut W,
+        first: bool,
+    ) -> std::io::Result<()> {
+        self.item(w, first)
+    }
+
+    fn begin_object_value<W: ?Sized + std::io::Write>(&mut self, w: &mut W) -> std::io::Result<()> {
+        w.write_all(b": ")
+    }
+
+    fn end_object_value<W: ?Sized + std::io::Write>(&mut self, _: &mut W) -> std::io::Result<()> {
+        self.has_value = true;
+        Ok(())
+    }
 }
 
 #[derive(Serialize, Default, Clone, Copy)]
@@ -73,45 +177,47 @@ pub struct Region {
     pub end_column: u32,
 }
 
+/// A diagnostic as JSON, borrowing its texts from the diagnostic and the
+/// workspace.
 #[derive(Serialize)]
-pub struct JsonDiagnostic {
-    pub file: String,
+pub struct JsonDiagnostic<'a> {
+    pub file: &'a str,
     pub line: u32,
     pub column: u32,
     pub end_line: u32,
     pub end_column: u32,
     pub severity: &'static str,
     pub rule: &'static str,
-    pub message: String,
+    pub message: &'a str,
     #[serde(skip_serializing_if = "Option::is_none")]
-    pub help: Option<String>,
-    pub related: Vec<JsonRelated>,
-    pub fixes: Vec<JsonFix>,
+    pub help: Option<&'a str>,
+    pub related: Vec<JsonRelated<'a>>,
+    pub fixes: Vec<JsonFix<'a>>,
 }
 
 #[derive(Serialize)]
-pub struct JsonRelated {
-    pub file: String,
+pub struct JsonRelated<'a> {
+    pub file: &'a str,
     pub line: u32,
     pub column: u32,
-    pub message: String,
+    pub message: &'a str,
 }
 
 #[derive(Serialize)]
-pub struct JsonFix {
-    pub title: String,
+pub struct JsonFix<'a> {
+    pub title: &'a str,
     pub applicability: Applicability,
-    pub edits: Vec<JsonEdit>,
+    pub edits: Vec<JsonEdit<'a>>,
 }
 
 #[derive(Serialize)]
-pub struct JsonEdit {
-    pub file: String,
+pub struct JsonEdit<'a> {
+    pub file: &'a str,
     pub line: u32,
     pub column: u32,
     pub end_line: u32,
     pub end_column: u32,
-    pub new_text: String,
+    pub new_text: &'a str,
 }
 
 /// The 1-based region of a span of a file.
@@ -127,28 +233,30 @@ pub fn region(ws: &Workspace, file: crate::span::FileId, span: crate::span::Span
     }
 }
 
-pub fn diagnostic(d: &Diagnostic, ws: &Workspace) -> JsonDiagnostic {
+pub fn diagnostic<'a>(d: &'a Diagnostic, ws: &'a Workspace) -> JsonDiagnostic<'a> {
     let r = region(ws, d.file, d.span);
     JsonDiagnostic {
-        file: ws.file(d.file).display.clone(),
+        file: &ws.file(d.file).display,
         line: r.line,
         column: r.column,
         end_line: r.end_line,
         end_column: r.end_column,
         severity: d.severity.as_str(),
         rule: d.rule,
-        message: d.message.clone(),
-        help: d.help.clone(),
+        message: &d.message,
+        help: d.help.as_deref(),
         related: d
             .related
             .iter()
             .map(|rel| {
-                let rr = region(ws, rel.file, rel.span);
+                // A related place is given by where it starts.
+                let f = ws.file(rel.file);
+                let at = f.index.position(&f.text, rel.span.start(), Encoding::Utf32);
                 JsonRelated {
-                    file: ws.file(rel.file).display.clone(),
-                    line: rr.line,
-                    column: rr.column,
-                    message: rel.message.clone(),
+                    file: &f.display,
+                    line: at.line + 1,
+                    column: at.column + 1,
+                    message: &rel.message,
                 }
             })
             .collect(),
@@ -156,7 +264,7 @@ pub fn diagnostic(d: &Diagnostic, ws: &Workspace) -> JsonDiagnostic {
             .fixes
             .iter()
             .map(|f| JsonFix {
-                title: f.title.clone(),
+                title: &f.title,
                 applicability: f.applicability,
                 edits: f
                     .edits
@@ -164,12 +272,12 @@ pub fn diagnostic(d: &Diagnostic, ws: &Workspace) -> JsonDiagnostic {
                     .map(|e| {
                         let er = region(ws, e.file, e.span);
                         JsonEdit {
-                            file: ws.file(e.file).display.clone(),
+                            file: &ws.file(e.file).display,
                             line: er.line,
                             column: er.column,
                             end_line: er.end_line,
                             end_column: er.end_column,
-                            new_text: e.new_text.clone(),
+                            new_text: &e.new_text,
                         }
                     })
                     .collect(),
@@ -186,8 +294,8 @@ mod tests {
 
     /// The report as one value, for the pretty writer to write whole.
     #[derive(Serialize)]
-    struct Whole {
-        diagnostics: Vec<JsonDiagnostic>,
+    struct Whole<'a> {
+        diagnostics: Vec<JsonDiagnostic<'a>>,
         summary: Summary,
     }
 
