@@ -11,12 +11,12 @@
 //! the span is a combination `Σ c_k b_k`, so `v · μ = Σ c_k value(b_k)`,
 //! the value an exact reduction carries to it (up to rounding), and
 //! `v · y = 0`. A reaction outside the span has `v · y ≠ 0` unless the
-//! fingerprint is orthogonal to it by chance: the fingerprint is uniform
-//! on the residue vectors orthogonal to the basis (the free species' values
-//! are, and the pivots' follow from them linearly), so for each reaction
-//! that chance is 1/(2^61 − 1), and a library of 10^6 reactions meets it
-//! with probability below 10^-12 (the Schwartz–Zippel lemma for a linear
-//! form).
+//! fingerprint is orthogonal to it by chance: the fingerprint is spread
+//! evenly over the residue vectors orthogonal to the basis (the free
+//! species' values are pseudo-random, from a fixed seed, and the pivots'
+//! follow from them linearly), so for each reaction that chance is
+//! 1/(2^61 − 1), and a library of 10^6 reactions meets it with probability
+//! below 10^-12 (the Schwartz–Zippel lemma for a linear form).
 //!
 //! Keeping them costs little: a new basis vector holds no pivot of an
 //! older one (the echelon order), so its pivot is solved from species that
