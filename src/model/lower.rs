@@ -1280,15 +1280,12 @@ impl<'w> Lowering<'w> {
         }
         // Most equations balance with small coefficients: settle those on
         // the packed rows, and keep the exact path for the rest.
-        let signed_terms = r.terms.iter().map(|t| {
-            let c = if t.side == Side::Left {
-                -t.coefficient
-            } else {
-                t.coefficient
-            };
-            (t.species.0, c)
-        });
-        if rows.balanced(signed_terms) == Some(true) {
+        let signed_coefficient = |t: &Term| match t.side {
+            Side::Left => -t.coefficient,
+            Side::Right => t.coefficient,
+        };
+        let packed = rows.balanced(r.terms.iter().map(|t| (t.species.0, signed_coefficient(t))));
+        if packed == Some(true) {
             return ok;
         }
         let species: Vec<&crate::chem::formula::Formula> = r
@@ -1300,18 +1297,11 @@ impl<'w> Lowering<'w> {
             .terms
             .iter()
             .zip(&species)
-            .map(|(t, f)| {
-                (
-                    if t.side == Side::Left {
-                        -t.coefficient
-                    } else {
-                        t.coefficient
-                    },
-                    *f,
-                )
-            })
+            .map(|(t, f)| (signed_coefficient(t), *f))
             .collect();
-        if crate::chem::balance::balanced_small(&signed) == Some(true) {
+        // The rows' answers are exact: only an equation they could not
+        // answer (a fraction, an overflow) may still balance.
+        if packed.is_none() && crate::chem::balance::balanced_small(&signed) == Some(true) {
             return ok;
         }
         let res = residuals(&signed);
